@@ -1,0 +1,7 @@
+import type { Command } from '../command.js';
+import { infoCommand } from './info.js';
+
+/** Every subcommand, in the order --help lists them. Add new commands here. */
+export const commands: readonly Command[] = [
+  infoCommand,
+];

@@ -1,0 +1,63 @@
+import { describe, expect, it } from 'vitest';
+import { silentLogger } from '../../src/logger.js';
+import type { Command, CommandIO } from '../../src/cli/command.js';
+import { runCli } from '../../src/cli/run.js';
+import { InputError } from '../../src/errors.js';
+
+function capture(): CommandIO & { out: string; err: string } {
+  const io = { out: '', err: '', isTTY: false, cwd: process.cwd(), logger: silentLogger,
+    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
+  return io;
+}
+
+const echo: Command = {
+  name: 'echo', summary: 'test command', usage: 'X [--n N]', description: '',
+  options: [{ name: 'n', type: 'number', description: 'a number' }, { name: 'lamp', type: 'list', description: 'lamps' }, { name: 'flag', type: 'boolean', description: 'a flag' }],
+  positionals: { min: 1, max: 1, name: 'X' },
+  async run(args, io) {
+    if (args.positionals[0] === 'bad') throw new InputError('t.bad', 'it is bad', { file: 'bad', line: 3 });
+    if (args.positionals[0] === 'boom') throw new Error('boom');
+    io.stdout(JSON.stringify({ p: args.positionals, n: args.options.get('n'), lamp: args.options.get('lamp'), flag: args.options.get('flag') ?? false, json: args.json }));
+    return 0;
+  },
+};
+
+describe('runCli', () => {
+  it('parses options, negative numbers and lists', async () => {
+    const io = capture();
+    expect(await runCli(['echo', 'a', '--n', '-71.5', '--lamp=neon, argon', '--flag', '--json'], io, [echo])).toBe(0);
+    expect(JSON.parse(io.out)).toEqual({ p: ['a'], n: -71.5, lamp: ['neon', 'argon'], flag: true, json: true });
+  });
+
+  it.each([
+    [['echo'], /needs a X argument/],
+    [['echo', 'a', 'b'], /takes at most 1 X argument/],
+    [['echo', 'a', '--what'], /unknown option --what/],
+    [['echo', 'a', '--n', 'abc'], /--n needs a number, got "abc"/],
+    [['echo', 'a', '--n'], /--n needs a value/],
+    [['nope'], /unknown command "nope"/],
+  ])('exits 2 with one line on usage error %j', async (argv, message) => {
+    const io = capture();
+    expect(await runCli(argv, io, [echo])).toBe(2);
+    expect(io.err).toMatch(/^lineshift: /);
+    expect(io.err.trim().split('\n')).toHaveLength(1);
+    expect(io.err).toMatch(message);
+  });
+
+  it('exits 1 with one located line on bad input, and no stack trace on internal errors', async () => {
+    let io = capture();
+    expect(await runCli(['echo', 'bad'], io, [echo])).toBe(1);
+    expect(io.err).toBe('lineshift: bad: line 3: it is bad\n');
+    io = capture();
+    expect(await runCli(['echo', 'boom'], io, [echo])).toBe(1);
+    expect(io.err).toMatch(/^lineshift: internal error: boom/);
+    expect(io.err).not.toMatch(/at .*\.ts/);
+  });
+
+  it('prints help with exit 0', async () => {
+    const io = capture();
+    expect(await runCli(['echo', '--help'], io, [echo])).toBe(0);
+    expect(io.out).toMatch(/^Usage: lineshift echo X/);
+    expect(io.out).toMatch(/--json/);
+  });
+});
