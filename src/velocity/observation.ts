@@ -169,8 +169,7 @@ class HeaderReader {
 }
 
 function toUtc(value: UtcTime | string, name: string): UtcTime {
-  if (typeof value !== 'string') return value;
-  const p = parseUtcTime(value, { keyword: name });
+  const p = typeof value === 'string' ? parseUtcTime(value, { keyword: name }) : value;
   return { mjdDay: p.mjdDay, secondsOfDay: p.secondsOfDay };
 }
 

@@ -92,6 +92,7 @@ for i in range(n):
         'time_utc': times[i],
         'ra_deg': float(ra[i]), 'dec_deg': float(dec[i]),
         'lat_deg': float(lat[i]), 'lon_deg': float(lon[i]), 'height_m': float(height[i]),
+        'itrs_xyz_m': [float(loc.x.to_value(u.m)), float(loc.y.to_value(u.m)), float(loc.z.to_value(u.m))],
         'jd_utc': float(t.utc.jd1 + t.utc.jd2),
         'mjd_tdb': float((t.tdb.jd1 - 2400000.5) + t.tdb.jd2),
         'tt_minus_utc_s': float(tt_minus_utc),
@@ -139,6 +140,7 @@ out = {
     'calls': {
         'time': "t = Time(time_utc, format='isot', scale='utc')",
         'location': 'loc = EarthLocation.from_geodetic(lon_deg*u.deg, lat_deg*u.deg, height_m*u.m)  # WGS84',
+        'itrs_xyz_m': '[loc.x, loc.y, loc.z] in metres',
         'target': "sc = SkyCoord(ra_deg*u.deg, dec_deg*u.deg, frame='icrs')",
         'barycentric_correction_m_s': "sc.radial_velocity_correction(kind='barycentric', obstime=t, location=loc).to_value(u.m/u.s)",
         'heliocentric_correction_m_s': "sc.radial_velocity_correction(kind='heliocentric', obstime=t, location=loc).to_value(u.m/u.s)",

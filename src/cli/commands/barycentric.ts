@@ -2,6 +2,7 @@ import { resolve } from 'node:path';
 import { readSpectrum } from '../../io/read.js';
 import { Header } from '../../spectrum/header.js';
 import { formatDeclination, formatRightAscension, parseDeclination, parseLatitude, parseLongitude, parseRightAscension } from '../../velocity/coordinates.js';
+import { parseUtcTime } from '../../velocity/time.js';
 import { barycentricCorrectionFromHeader, type HeaderCorrection, type ObservationOverrides } from '../../velocity/observation.js';
 import { numberOption, stringOption, type Command } from '../command.js';
 import { UsageError } from '../../errors.js';
@@ -107,9 +108,9 @@ the mid-point is --midpoint if given, else start + exposure/2. RA is degrees or 
   async run(args, io) {
     const overrides: ObservationOverrides = {};
     const time = stringOption(args, 'time');
-    if (time !== undefined) overrides.start = time;
+    if (time !== undefined) overrides.start = parseUtcTime(time, { keyword: '--time' });
     const midpoint = stringOption(args, 'midpoint');
-    if (midpoint !== undefined) overrides.midpoint = midpoint;
+    if (midpoint !== undefined) overrides.midpoint = parseUtcTime(midpoint, { keyword: '--midpoint' });
     const exptime = numberOption(args, 'exptime');
     if (exptime !== undefined) overrides.exposureS = exptime;
     const ra = stringOption(args, 'ra');
