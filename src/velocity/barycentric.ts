@@ -77,7 +77,13 @@ const sub = (a: Vec3, b: Vec3): Vec3 => [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
 const add = (a: Vec3, b: Vec3): Vec3 => [a[0] + b[0], a[1] + b[1], a[2] + b[2]];
 const AU_PER_DAY_TO_M_PER_S = METERS_PER_AU / SECONDS_PER_DAY;
 
-/** Unit vector towards RA/Dec (degrees), in the ICRS/J2000 equatorial frame. */
+/**
+ * Unit vector towards a right ascension and declination, in the ICRS/J2000 equatorial frame.
+ * @param raDeg right ascension, degrees; @param decDeg declination, degrees.
+ * @returns [x, y, z], x towards RA 0 Dec 0, z towards the north pole.
+ * @example
+ * unitVectorFromRaDec(90, 0); // [6e-17, 1, 0]
+ */
 export function unitVectorFromRaDec(raDeg: number, decDeg: number): [number, number, number] {
   const a = (raDeg * Math.PI) / 180;
   const d = (decDeg * Math.PI) / 180;

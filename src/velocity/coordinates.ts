@@ -135,7 +135,12 @@ export function parseLongitude(value: AngleInput, where: ErrorLocation = {}): nu
   return parseSignedAngle(value, 360, 'longitude', where);
 }
 
-/** Longitude folded into −180 < λ ≤ 180. */
+/**
+ * Longitude folded into −180 < λ ≤ 180 degrees.
+ * @param longitudeDeg any finite longitude, degrees.
+ * @example
+ * normalizeLongitudeDeg(359); // -1
+ */
 export function normalizeLongitudeDeg(longitudeDeg: number): number {
   let l = longitudeDeg % 360;
   if (l > 180) l -= 360;

@@ -83,7 +83,7 @@ export function velocityFromRedshift(z: number, options: DopplerOptions = {}): n
  * @returns km/s, positive receding.
  * @throws {InputError} `doppler.bad-wavelength` for a non-positive or non-finite wavelength.
  * @example
- * dopplerVelocityKmPerS(6564, 6563); // 45.67... km/s (relativistic); classical gives 45.6792...
+ * dopplerVelocityKmPerS(6564, 6563); // 45.6757 km/s (relativistic); classical gives 45.6792
  */
 export function dopplerVelocityKmPerS(observedWavelength: number, restWavelength: number, options: DopplerOptions = {}): number {
   const where = options.where ?? {};
@@ -102,7 +102,7 @@ export function dopplerVelocityKmPerS(observedWavelength: number, restWavelength
  * @returns the shifted wavelength.
  * @throws {InputError} `doppler.bad-wavelength`, `doppler.bad-velocity`.
  * @example
- * shiftWavelength(6563, 45.679); // ≈ 6564.0
+ * shiftWavelength(6563, 45.679); // 6564.00007 (relativistic)
  */
 export function shiftWavelength(restWavelength: number, velocityKmPerS: number, options: DopplerOptions = {}): number {
   checkPositive(restWavelength, 'rest wavelength', options.where ?? {});

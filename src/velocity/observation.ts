@@ -10,7 +10,7 @@ import { barycentricCorrection, type BarycentricResult, type TargetDirection } f
 import { parseDeclination, parseLatitude, parseLongitude, parseRightAscension } from './coordinates.js';
 import { makeSite, siteFromGeocentric, type ObservingSite } from './site.js';
 import {
-  addSeconds, formatUtcTime, parseTimeOfDaySeconds, parseUtcTime, secondsBetween, utcFromMjd, type UtcTime,
+  addSeconds, formatUtcTime, parseTimeOfDaySeconds, parseUtcTime, secondsBetween, utcDayLengthSeconds, utcFromMjd, type UtcTime,
 } from './time.js';
 
 /** Header keywords searched, in order of preference (exported so that messages and docs agree). */
@@ -170,6 +170,9 @@ class HeaderReader {
 
 function toUtc(value: UtcTime | string, name: string): UtcTime {
   const p = typeof value === 'string' ? parseUtcTime(value, { keyword: name }) : value;
+  if (!Number.isInteger(p.mjdDay) || !(p.secondsOfDay >= 0 && p.secondsOfDay < utcDayLengthSeconds(p.mjdDay))) {
+    throw new InputError('time.bad-value', `${name}: { mjdDay: ${p.mjdDay}, secondsOfDay: ${p.secondsOfDay} } is not a UTC instant (mjdDay a whole number, 0 ≤ secondsOfDay < the day's length)`, { keyword: name });
+  }
   return { mjdDay: p.mjdDay, secondsOfDay: p.secondsOfDay };
 }
 

@@ -298,7 +298,7 @@ export function mjdTaiOf(utc: UtcTime, where: ErrorLocation = {}): number {
  *
  * @throws {InputError} `time.before-utc` before 1960.
  * @example
- * utcFromMjdTai(60000 + 37 / 86400); // { mjdDay: 60000, secondsOfDay: ~0 }
+ * utcFromMjdTai(60000 + 37 / 86400); // { mjdDay: 60000, secondsOfDay: 0 }
  */
 export function utcFromMjdTai(mjdTai: number, where: ErrorLocation = {}): UtcTime {
   if (!Number.isFinite(mjdTai)) throw new InputError('time.bad-value', `MJD ${mjdTai} is not a finite number`, where);
@@ -325,7 +325,12 @@ export function addSeconds(utc: UtcTime, seconds: number, where: ErrorLocation =
   return utcFromMjdTai(mjdTaiOf(utc, where) + seconds / SECONDS_PER_DAY, where);
 }
 
-/** SI seconds from `a` to `b` (b − a), counting leap seconds. */
+/**
+ * SI seconds from `a` to `b` (b − a), counting leap seconds.
+ * @throws {InputError} `time.before-utc` before 1960.
+ * @example
+ * secondsBetween(parseUtcTime('2016-12-31T23:59:59'), parseUtcTime('2017-01-01T00:00:01')); // 3
+ */
 export function secondsBetween(a: UtcTime, b: UtcTime): number {
   return (mjdTaiOf(b) - mjdTaiOf(a)) * SECONDS_PER_DAY;
 }
@@ -367,7 +372,7 @@ export function formatUtcTime(utc: UtcTime, decimals = 3): string {
  * @param mjdTt modified Julian date in TT.
  * @returns TDB − TT, s (periodic, amplitude about 1.66 ms).
  * @example
- * tdbMinusTtSeconds(51544.5); // -0.0000965... (J2000.0)
+ * tdbMinusTtSeconds(51544.5); // -0.0000957... (J2000.0)
  */
 export function tdbMinusTtSeconds(mjdTt: number): number {
   const t = (mjdTt - MJD_J2000) / DAYS_PER_JULIAN_CENTURY;

@@ -101,6 +101,11 @@ describe('readObservation', () => {
     expect(o.keysUsed).toEqual([]); // EQUINOX not checked: the target came from the caller
   });
 
+  it('refuses an override instant that is not one', () => {
+    const e = inputError(() => readObservation(Header.from(clubCards), { midpoint: { mjdDay: 60000, secondsOfDay: 90000 } }));
+    expect(e.message).toBe("keyword midpoint: midpoint: { mjdDay: 60000, secondsOfDay: 90000 } is not a UTC instant (mjdDay a whole number, 0 ≤ secondsOfDay < the day's length)");
+  });
+
   it('uses a start override with the header exposure time', () => {
     const o = readObservation(Header.from(clubCards), { start: '2024-03-05T22:00:00' });
     expect(o.midpointIso).toBe('2024-03-05T22:05:00.000');
