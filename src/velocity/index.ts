@@ -6,3 +6,4 @@ export * from './coordinates.js';
 export * from './site.js';
 export * from './barycentric.js';
 export * from './observation.js';
+export * from './photon-noise.js';

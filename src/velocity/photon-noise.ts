@@ -1,7 +1,5 @@
 import { UsageError } from '../errors.js';
-
-/** Speed of light in km/s (exact, SI definition of the metre). */
-const C_KM_PER_S = 299_792.458;
+import { SPEED_OF_LIGHT_KM_PER_S } from './constants.js';
 
 /**
  * The photon-noise limit of a radial velocity: the smallest velocity uncertainty any
@@ -37,5 +35,5 @@ export function photonNoiseLimitKmPerS(wavelengthAngstrom: ArrayLike<number>, no
     const w = (wavelengthAngstrom[i] * dA) / s;
     if (Number.isFinite(w)) sum += w * w;
   }
-  return sum > 0 ? C_KM_PER_S / Math.sqrt(sum) : Infinity;
+  return sum > 0 ? SPEED_OF_LIGHT_KM_PER_S / Math.sqrt(sum) : Infinity;
 }
