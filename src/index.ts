@@ -11,6 +11,7 @@ export * from './fit/index.js';
 export * from './lines/index.js';
 export * from './calibrate/index.js';
 export * from './velocity/index.js';
+export * from './elements/index.js';
 export * from './orbit/index.js';
 export * from './plot/index.js';
 export * from './notebook/index.js';

@@ -1,0 +1,60 @@
+/**
+ * Every user-facing message of the elements area, in one place and one format: lower-case
+ * start, says what is wrong and what is expected, no trailing full stop.
+ */
+
+/** A species request that matches no line list. */
+export function unknownSpeciesMessage(unknown: readonly string[], available: readonly string[]): string {
+  const elements = [...new Set(available.map((a) => a.split(/\s+/)[0]))];
+  return `no line list for ${unknown.map((u) => `"${u}"`).join(', ')} (known: ${elements.join(', ')})`;
+}
+
+/** An option that must be a positive finite number. */
+export function notPositiveMessage(name: string, value: unknown): string {
+  return `${name} must be a positive finite number, got ${String(value)}`;
+}
+
+/** An option that must be a finite number. */
+export function notFiniteMessage(name: string, value: unknown): string {
+  return `${name} must be a finite number, got ${String(value)}`;
+}
+
+/** An observed line with an impossible field. */
+export function badObservedLineMessage(field: string, value: unknown): string {
+  return `found line has ${field} ${String(value)}; expected a positive finite number`;
+}
+
+/** An observed line whose kind is neither absorption nor emission. */
+export function badKindMessage(value: unknown): string {
+  return `found line has kind ${JSON.stringify(value)}; expected "absorption" or "emission"`;
+}
+
+/** A reference line with an impossible wavelength. */
+export function badReferenceLineMessage(value: unknown): string {
+  return `reference line has wavelength ${String(value)}; expected a positive finite number of Å`;
+}
+
+/** Neither a resolving power nor line widths to estimate it from. */
+export function noResolutionMessage(): string {
+  return 'give the resolving power: no found line has a FWHM to estimate it from';
+}
+
+/** A coverage interval that is empty or reversed. */
+export function badCoverageMessage(start: unknown, end: unknown): string {
+  return `wavelength coverage ${String(start)}–${String(end)} Å is not an interval of positive wavelengths with start < end`;
+}
+
+/** A velocity at or beyond the speed of light. */
+export function velocityTooLargeMessage(v: number): string {
+  return `velocity ${v} km/s is not below the speed of light in size`;
+}
+
+/** Warning: the resolving power was estimated from the found lines' widths. */
+export function resolutionEstimatedMessage(r: number, n: number): string {
+  return `resolving power not given; using ${Math.round(r)} (median λ/FWHM of ${n} found lines)`;
+}
+
+/** Warning: the shift test was skipped because the coverage is too short. */
+export function shiftTestSkippedMessage(lengthAngstrom: number): string {
+  return `shift test skipped: the covered ${lengthAngstrom.toFixed(1)} Å is too short for offsets larger than the tolerance`;
+}
