@@ -1,2 +1,5 @@
 // Public API of the orbit area; each module of the area is re-exported here.
-export {};
+export * from './table.js';
+export * from './kepler.js';
+export * from './periodogram.js';
+export { lnGamma } from './special.js';
