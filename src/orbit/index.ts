@@ -2,4 +2,7 @@
 export * from './table.js';
 export * from './kepler.js';
 export * from './periodogram.js';
+export { radialVelocityKmPerS, type BinaryStar, type KeplerianOrbit } from './keplerian.js';
+export * from './constants.js';
+export * from './mass-function.js';
 export { lnGamma } from './special.js';
