@@ -163,7 +163,7 @@ export function guessLineParameters(
       comps.push({ center: main.centroid, fwhm: main.fwhm, amplitude: main.amplitude });
     } else {
       // Separate local maxima of the smoothed flux within the feature, highest first.
-      const lo = main.left - main.fwhm / 2, hi = main.right + main.fwhm / 2;
+      const lo = main.left - 1.5 * main.fwhm, hi = main.right + 1.5 * main.fwhm;
       const peaks: number[] = [];
       for (let i = 1; i < m - 1; i++) {
         if (x[i] < lo || x[i] > hi) continue;

@@ -15,7 +15,7 @@ import {
   componentDerived, componentOffset, componentSize, evaluateLineModel, lineModelParameterNames,
   propagate, type ContinuumOrder, type LineModelShape,
 } from './line-model.js';
-import { LINE_PROFILES, type LineProfile } from './profiles.js';
+import { LINE_PROFILES, profileFwhm, type LineProfile } from './profiles.js';
 
 export type { ContinuumOrder } from './line-model.js';
 export type { LineSign } from './guess.js';
@@ -75,8 +75,9 @@ export interface LineFitOptions extends LineFitSettings {
   centerAngstrom: number | readonly number[];
   /**
    * Full width of the fitting window in Å, from the lowest centre − width/2 to the highest
-   * centre + width/2. Default: ±3 estimated FWHM (at least ±8 pixels) around the centres,
-   * the FWHM being estimated within ±20 pixels first.
+   * centre + width/2. Default: ±3 estimated FWHM around each component's estimated centre
+   * (and at least ±8 pixels around the centres given), the components being estimated
+   * within ±20 pixels first (more for broad lines).
    */
   windowAngstrom?: number;
 }
@@ -330,15 +331,31 @@ function fitPrepared(d: Prepared, o: ArrayLineFitOptions, provenanceOptions: Rec
     end = cmax + o.window / 2;
     win = slice(d, start, end);
   } else {
-    let half = FIRST_HALF_WINDOW_PIXELS * spacing;
-    for (let pass = 0; pass < 2; pass++) {
-      win = slice(d, cmin - half, cmax + half);
+    // Estimate the components in ±20 pixels around the centres, and take ±3 FWHM around
+    // each (at least ±8 pixels around the centres). When that reaches beyond the estimation
+    // window (a broad line), estimate again in the larger window; never shrink it, so that
+    // the continuum guess always comes from beyond the line.
+    let estStart = cmin - FIRST_HALF_WINDOW_PIXELS * spacing;
+    let estEnd = cmax + FIRST_HALF_WINDOW_PIXELS * spacing;
+    start = estStart;
+    end = estEnd;
+    for (let pass = 0; pass < 3; pass++) {
+      win = slice(d, estStart, estEnd);
       if (win.x.length < 5) break;
-      const g = guessLineParameters(shapeFor(win), win.x, win.y, centers, sign);
-      half = Math.max(WINDOW_HALF_WIDTH_FWHM * g.featureFwhm, MIN_HALF_WINDOW_PIXELS * spacing);
+      const sh = shapeFor(win);
+      const g = guessLineParameters(sh, win.x, win.y, centers, sign);
+      start = cmin - MIN_HALF_WINDOW_PIXELS * spacing;
+      end = cmax + MIN_HALF_WINDOW_PIXELS * spacing;
+      for (let k = 0; k < components; k++) {
+        const off = componentOffset(sh, k);
+        const f = profileFwhm(profile, g.parameters[off + 1], profile === 'voigt' ? g.parameters[off + 2] : 0, null);
+        start = Math.min(start, g.parameters[off] - WINDOW_HALF_WIDTH_FWHM * f);
+        end = Math.max(end, g.parameters[off] + WINDOW_HALF_WIDTH_FWHM * f);
+      }
+      if (start >= estStart && end <= estEnd) break;
+      estStart = Math.min(estStart, start);
+      estEnd = Math.max(estEnd, end);
     }
-    start = cmin - half;
-    end = cmax + half;
     win = slice(d, start, end);
   }
   const shape = shapeFor(win);

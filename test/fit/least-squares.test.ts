@@ -2,20 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { UsageError } from '../../src/errors.js';
 import { fitCurve, type CurveModel } from '../../src/fit/curve.js';
 import { leastSquares, solveDampedStep, type LeastSquaresProblem } from '../../src/fit/least-squares.js';
+import { normal } from '../helpers/random.js';
 import { choleskyInPlace, inverseNormalMatrix, pivotedQR, solveLeastSquaresQR } from '../../src/fit/linalg.js';
 
-/** Seeded normal deviates (mulberry32 + Box–Muller), so every run sees the same data. */
-function rng(seed: number): () => number {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
-}
+const rng = normal;
 
 const line: CurveModel = (x, p, g) => {
   if (g) { g[0] = 1; g[1] = x; }
