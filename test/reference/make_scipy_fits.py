@@ -8,7 +8,7 @@ Run with Debian's python3 (scipy 1.10.1, numpy 1.24.2):
 It writes test/fixtures/scipy-fits.json: seeded synthetic line spectra (data, truth),
 scipy's fitted parameters and standard errors for each, the exact call, and reference
 values of scipy.special.voigt_profile and of the Voigt FWHM (found by brentq on
-voigt_profile). The model and its parametrisation are those of lineshift's
+voigt_profile), and a DER_SNR value computed with numpy from its published definition. The model and its parametrisation are those of lineshift's
 src/fit/line-model.ts:
 
     continuum c0 + c1 (x - xref) + c2 (x - xref)^2,  xref = (x[0] + x[-1]) / 2
@@ -210,6 +210,23 @@ def voigt_fwhm_values():
     return out
 
 
+def der_snr_values():
+    """DER_SNR (Stoehr et al. 2008, ASP Conf. Ser. 394, 505) computed with numpy as the
+    paper defines it: drop zero fluxes, signal = median(f), noise = 1.482602/sqrt(6) *
+    median(|2 f_i - f_(i-2) - f_(i+2)|)."""
+    rng = np.random.default_rng(20240701)
+    x = np.arange(400)
+    flux = 100.0 + 0.05 * x - 40.0 * np.exp(-0.5 * ((x - 150) / 3.0) ** 2) + 60.0 * np.exp(-0.5 * ((x - 300) / 1.5) ** 2)
+    flux = flux + 2.0 * rng.standard_normal(400)
+    flux[[10, 11, 200]] = 0.0  # zeros are dropped
+    f = flux[flux != 0.0]
+    n = len(f)
+    signal = float(np.median(f))
+    noise = float(1.482602 / np.sqrt(6.0) * np.median(np.abs(2.0 * f[2:n - 2] - f[0:n - 4] - f[4:n])))
+    return {"flux": flux.tolist(), "signal": signal, "noise": noise, "snr": signal / noise,
+            "call": "numpy.median as in Stoehr et al. (2008); zero fluxes dropped"}
+
+
 def main():
     here = os.path.dirname(os.path.abspath(__file__))
     target = os.path.join(here, "..", "fixtures", "scipy-fits.json")
@@ -226,6 +243,7 @@ def main():
         "cases": [run_case(k, c) for k, c in enumerate(CASES)],
         "voigtProfile": voigt_values(),
         "voigtFwhm": voigt_fwhm_values(),
+        "derSnr": der_snr_values(),
     }
     tmp = target + ".tmp"
     with open(tmp, "w") as fh:
