@@ -1,2 +1,2 @@
 // Public API of the lines area; each module of the area is re-exported here.
-export {};
+export * from './snr.js';

@@ -1,0 +1,30 @@
+/**
+ * Seeded random numbers for reproducible simulations: mulberry32 (a small 32-bit
+ * generator; common practice for test data) and Box–Muller normal deviates.
+ */
+
+/** Uniform deviates in [0, 1) from a 32-bit seed. */
+export function uniform(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Standard normal deviates from a 32-bit seed. */
+export function normal(seed: number): () => number {
+  const u = uniform(seed);
+  return () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
+}
+
+/** Mean and standard deviation (n − 1) of a sample. */
+export function meanStd(a: readonly number[]): { mean: number; std: number } {
+  const n = a.length;
+  const mean = a.reduce((s, v) => s + v, 0) / n;
+  const v = a.reduce((s, x) => s + (x - mean) ** 2, 0) / (n - 1);
+  return { mean, std: Math.sqrt(v) };
+}
