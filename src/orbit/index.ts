@@ -6,3 +6,4 @@ export { radialVelocityKmPerS, type BinaryStar, type KeplerianOrbit } from './ke
 export * from './constants.js';
 export * from './mass-function.js';
 export { lnGamma } from './special.js';
+export { fitOrbit, lucySweeneyProbability, type CircularOrbitTest, type OrbitFit, type OrbitFitOptions } from './orbit-fit.js';
