@@ -52,7 +52,9 @@ function cardJson(card: HeaderCard): string {
  * and their units (`wavelength [nm]`, `flux [adu]`, `uncertainty [adu]`, `mask`), then one
  * row per pixel. Numbers are written as the shortest text that reads back to the same
  * double, so {@link parseTextSpectrum} on the result gives back the same arrays, unit,
- * medium, flux unit, header cards and provenance (plus its own `read-text` entry).
+ * medium, flux unit, header cards and provenance (plus its own `read-text` entry). The
+ * flux unit is written trimmed (an empty one reads back as null); header-card values and
+ * provenance parameters go through JSON, so they must be JSON-safe (no NaN, no −0).
  *
  * @param spectrum the spectrum to write (not modified).
  * @param options `format` (`csv`, the default, or `tsv`) and extra `comments`.
@@ -73,11 +75,11 @@ export function formatTextSpectrum(spectrum: Spectrum, options: TextWriteOptions
   for (const card of spectrum.header.cards) out.push(`# header: ${cardJson(card)}`);
   for (const p of spectrum.provenance) out.push(`# provenance: ${JSON.stringify({ step: p.step, parameters: p.parameters, version: p.version })}`);
 
-  const flux = spectrum.fluxUnit === null ? 'flux' : `flux [${spectrum.fluxUnit}]`;
-  const cols = [`wavelength [${unitSymbol(spectrum.unit)}]`, flux];
+  const fluxUnit = spectrum.fluxUnit === null ? '' : spectrum.fluxUnit.trim();
+  const cols = [`wavelength [${unitSymbol(spectrum.unit)}]`, fluxUnit === '' ? 'flux' : `flux [${fluxUnit}]`];
   const u = spectrum.uncertainty;
   const m = spectrum.mask;
-  if (u) cols.push(spectrum.fluxUnit === null ? 'uncertainty' : `uncertainty [${spectrum.fluxUnit}]`);
+  if (u) cols.push(fluxUnit === '' ? 'uncertainty' : `uncertainty [${fluxUnit}]`);
   if (m) cols.push('mask');
   out.push(cols.map((c) => quoteCell(c, d)).join(d));
   const w = spectrum.wavelength;
