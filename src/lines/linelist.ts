@@ -9,7 +9,7 @@ import { basename, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { InputError, UsageError, type ErrorLocation } from '../errors.js';
 import { readColumnHeading } from '../io/text/columns.js';
-import { decodeText, detectDelimiter, parseNumberCell, splitFields, textLines, type TextLine } from '../io/text/fields.js';
+import { decodeText, detectDelimiter, joinBracketedUnits, parseNumberCell, splitFields, textLines, type TextLine } from '../io/text/fields.js';
 import { airToVacuum, vacuumToAir, type AirVacuumOptions } from '../spectrum/air-vacuum.js';
 import { convertWavelength } from '../spectrum/units.js';
 
@@ -301,7 +301,8 @@ export function parseLineListCsv(text: string | Uint8Array, name: string, option
   const delimiter = detectDelimiter(lines.slice(0, 20).map((l) => l.text));
   const headerLine = lines[0];
   const headerWhere: ErrorLocation = { file, line: headerLine.number };
-  const header = splitFields(headerLine.text, delimiter, headerWhere);
+  const headerFields = splitFields(headerLine.text, delimiter, headerWhere);
+  const header = delimiter === 'whitespace' ? joinBracketedUnits(headerFields) : headerFields;
   if (header.every((h) => h === '' || parseNumberCell(h) !== undefined)) {
     throw new InputError('linelist.no-header', 'the first row is not a header row; name the columns, e.g. "wavelength_air_angstrom,relative_intensity,source_id,note"', headerWhere);
   }

@@ -216,7 +216,7 @@ export function detectDelimiter(lines: readonly string[]): Delimiter {
     const count = unquoted.filter((l) => l.includes(d)).length;
     if (count * 2 < unquoted.length) continue;
     if (d === '\t') {
-      const inner = unquoted.slice(1).some((l) => l.split('\t').some((f) => /\S[ \f]+\S/.test(f)));
+      const inner = unquoted.slice(1).some((l) => l.split('\t').some((f) => /\S[ \f]+\S/.test(f) && f.trim().split(/[ \f]+/).every(isNumberCell)));
       if (inner) continue;
     }
     return d;
@@ -224,14 +224,36 @@ export function detectDelimiter(lines: readonly string[]): Delimiter {
   return 'whitespace';
 }
 
+/** The line without quoted text, bracketed units (`[nm, air]`, `(Å)`) and a trailing comment. */
 function stripQuotedAndComment(line: string): string {
   let out = '';
   let inQuotes = false;
+  let depth = 0;
   for (let i = 0; i < line.length; i++) {
     const ch = line[i];
     if (ch === '"') inQuotes = !inQuotes;
-    else if (!inQuotes && ch === '#') break;
-    else if (!inQuotes) out += ch;
+    else if (inQuotes) continue;
+    else if (ch === '#') break;
+    else if (ch === '[' || ch === '(') depth++;
+    else if ((ch === ']' || ch === ')') && depth > 0) depth--;
+    else if (depth === 0) out += ch;
+  }
+  return out;
+}
+
+/**
+ * In a whitespace-separated header row, `wavelength [nm, air]` splits into several fields:
+ * join each bracketed part to the name before it.
+ *
+ * @example joinBracketedUnits(['wavelength', '[nm,', 'air]', 'flux']); // ['wavelength [nm, air]', 'flux']
+ */
+export function joinBracketedUnits(fields: readonly string[]): string[] {
+  const out: string[] = [];
+  for (const f of fields) {
+    const last = out[out.length - 1];
+    const open = last === undefined ? 0 : (last.match(/[[(]/g)?.length ?? 0) - (last.match(/[\])]/g)?.length ?? 0);
+    if (last !== undefined && (open > 0 || /^[[(]/.test(f))) out[out.length - 1] += ` ${f}`;
+    else out.push(f);
   }
   return out;
 }

@@ -16,6 +16,7 @@ import {
   delimiterName,
   detectDelimiter,
   isNumberCell,
+  joinBracketedUnits,
   parseNumberCell,
   splitFields,
   textLines,
@@ -247,18 +248,6 @@ function handleNonContent(line: TextLine, meta: CommentMetadata, file: string, l
 
 function splitRow(line: TextLine, delimiter: Delimiter, file: string): string[] {
   return splitFields(line.text, delimiter, { file, line: line.number });
-}
-
-/** In a whitespace-separated header row, `wavelength [nm]` splits in two: join a bracketed unit to its name. */
-function joinBracketedUnits(fields: string[]): string[] {
-  const out: string[] = [];
-  for (const f of fields) {
-    const last = out[out.length - 1];
-    const open = last === undefined ? 0 : (last.match(/[[(]/g)?.length ?? 0) - (last.match(/[\])]/g)?.length ?? 0);
-    if (last !== undefined && (open > 0 || /^[[(]/.test(f))) out[out.length - 1] += ` ${f}`;
-    else out.push(f);
-  }
-  return out;
 }
 
 function headingRoles(headings: ColumnHeading[], file: string, line: number, logger: Logger | undefined): (ColumnRole | null)[] {
