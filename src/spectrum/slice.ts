@@ -36,14 +36,19 @@ export function sliceSpectrum(s: Spectrum, range: SliceOptions): Spectrum {
   }
   if (min > max) throw new UsageError('spectrum.bad-range', `the slice range has min ${min} above max ${max}`);
   const unit = range.unit ?? s.unit;
+  // A bound converted from another unit may land one rounding off a pixel it names exactly
+  // (656.1 nm → 6561.000000000001 Å): widen it by 10⁻¹² relative so the end stays included.
+  const slack = unit === s.unit ? 0 : 1e-12;
   const lo = convertWavelength(min, unit, s.unit);
   const hi = convertWavelength(max, unit, s.unit);
+  const loW = lo - Math.abs(lo) * slack;
+  const hiW = hi + Math.abs(hi) * slack;
   const w = s.wavelength;
   const n = w.length;
   let first = -1;
   let last = -1;
   for (let i = 0; i < n; i++) {
-    if (w[i] >= lo && w[i] <= hi) {
+    if (w[i] >= loW && w[i] <= hiW) {
       if (first < 0) first = i;
       last = i;
     }

@@ -36,6 +36,11 @@ describe('sliceSpectrum', () => {
 
   it('takes the range in another unit and works on a decreasing axis', () => {
     expect(Array.from(sliceSpectrum(base, { min: 656.15, max: 656.25, unit: 'nm' }).flux)).toEqual([3]);
+    // Ends given exactly in another unit stay included despite rounding in the conversion.
+    // In binary, 400.014 nm × 10 = 4000.1400000000003 Å (above the pixel at 4000.14) and
+    // 400.015 × 10 = 4000.1499999999996 (below the pixel at 4000.15).
+    const fine = createSpectrum({ wavelength: [4000.13, 4000.14, 4000.15, 4000.16], flux: [1, 2, 3, 4] });
+    expect(Array.from(sliceSpectrum(fine, { min: 400.014, max: 400.015, unit: 'nm' }).flux)).toEqual([2, 3]);
     const dec = createSpectrum({ wavelength: [5, 4, 3, 2, 1], flux: [50, 40, 30, 20, 10], unit: 'nm' });
     expect(Array.from(sliceSpectrum(dec, { min: 2, max: 4 }).flux)).toEqual([40, 30, 20]);
   });
@@ -53,7 +58,10 @@ describe('sliceSpectrum', () => {
 
 describe('convertSpectrumUnit', () => {
   it('converts Å → nm → µm → Å, keeping the values to one rounding', () => {
+    const before = base.wavelength.slice();
     const nm = convertSpectrumUnit(base, 'nm');
+    expect(base.wavelength).toEqual(before);
+    expect(base.unit).toBe('angstrom');
     expect(nm.unit).toBe('nm');
     expect(Array.from(nm.wavelength)).toEqual([656, 656.1, 656.2, 656.3, 656.4]);
     const back = convertSpectrumUnit(convertSpectrumUnit(nm, 'um'), 'angstrom');

@@ -69,6 +69,20 @@ export function* textLines(text: string, file: string): Generator<TextLine> {
   let start = 0;
   let number = 1;
   const n = text.length;
+  if (text.indexOf('\r') < 0) {
+    // Fast path: LF line ends only.
+    while (start < n) {
+      let end = text.indexOf('\n', start);
+      if (end < 0) end = n;
+      if (end - start > MAX_LINE_LENGTH) {
+        throw new InputError('text.line-too-long', `the line is longer than ${MAX_LINE_LENGTH} characters; this is not a table of numbers`, { file, line: number });
+      }
+      yield { number, text: text.slice(start, end) };
+      start = end + 1;
+      number++;
+    }
+    return;
+  }
   while (start < n) {
     let end = start;
     while (end < n) {
@@ -107,7 +121,14 @@ export function splitFields(line: string, delimiter: Delimiter, where: ErrorLoca
       const t = body.trim();
       return t === '' ? [] : t.split(/[ \t\f]+/);
     }
-    return body.split(delimiter).map((f) => f.trim());
+    const parts = body.split(delimiter);
+    for (let i = 0; i < parts.length; i++) {
+      const f = parts[i];
+      const a = f.charCodeAt(0);
+      const b = f.charCodeAt(f.length - 1);
+      if (a <= 32 || b <= 32) parts[i] = f.trim();
+    }
+    return parts;
   }
   const fields: string[] = [];
   let cur = '';
@@ -185,6 +206,17 @@ const INF_RE = /^([+-]?)inf(?:inity)?$/i;
  */
 export function parseNumberCell(cell: string): number | undefined {
   if (cell === '') return NaN;
+  // Fast path: only digits, sign, point and e/E. For such text, Number() accepts exactly what
+  // NUMBER_RE accepts (a decimal literal) and gives NaN for anything else ('-', '1e', '1.2.3').
+  let plain = true;
+  for (let i = 0; i < cell.length && plain; i++) {
+    const c = cell.charCodeAt(i);
+    plain = (c >= 48 && c <= 57) || c === 46 || c === 43 || c === 45 || c === 101 || c === 69;
+  }
+  if (plain) {
+    const v = Number(cell);
+    return Number.isNaN(v) ? undefined : v;
+  }
   if (NUMBER_RE.test(cell)) return Number(cell.replace(/[dD]/, 'e'));
   if (NAN_RE.test(cell)) return NaN;
   const m = INF_RE.exec(cell);

@@ -124,29 +124,28 @@ export function parseTextSpectrum(bytes: Uint8Array, name: string, options: Read
   const rowLine: number[] = [];
   let uncertaintyAllEmpty = true;
   const readRow = (line: TextLine) => {
-    const where: ErrorLocation = { file, line: line.number };
     const fields = splitRow(line, delimiter, file);
+    const at = line.number;
     if (fields.length !== ncol) {
       const ref = hasHeader ? `the header row (line ${sample[0].number})` : `the first row (line ${sample[0].number})`;
-      throw new InputError('text.ragged-row', `the row has ${fields.length} column${fields.length === 1 ? '' : 's'}, but ${ref} has ${ncol}`, where);
+      throw new InputError('text.ragged-row', `the row has ${fields.length} column${fields.length === 1 ? '' : 's'}, but ${ref} has ${ncol}`, { file, line: at });
     }
-    const w = numberAt(fields, wCol, 'wavelength', where);
+    const w = numberAt(fields, wCol, 'wavelength', file, at);
     if (!Number.isFinite(w)) {
       const what = fields[wCol] === '' ? 'is empty' : `is ${w}`;
-      throw new InputError('text.bad-wavelength', `the wavelength cell ${what}; every row needs a finite wavelength`, { ...where, column: String(wCol + 1) });
+      throw new InputError('text.bad-wavelength', `the wavelength cell ${what}; every row needs a finite wavelength`, { file, line: at, column: String(wCol + 1) });
     }
-    const k = wavelength.length;
-    if (k >= 1) checkOrder(w, wavelength, rowLine, { ...where, column: String(wCol + 1) });
+    if (wavelength.length >= 1) checkOrder(w, wavelength, rowLine, file, at, wCol);
     wavelength.push(w);
-    rowLine.push(line.number);
-    flux.push(numberAt(fields, fCol, 'flux', where));
+    rowLine.push(at);
+    flux.push(numberAt(fields, fCol, 'flux', file, at));
     if (uCol >= 0) {
       if (fields[uCol] !== '') uncertaintyAllEmpty = false;
-      uncertainty.push(numberAt(fields, uCol, 'uncertainty', where));
+      uncertainty.push(numberAt(fields, uCol, 'uncertainty', file, at));
     }
     if (mCol >= 0) {
-      const m = numberAt(fields, mCol, 'mask', where);
-      if (!Number.isFinite(m)) throw new InputError('text.bad-mask', `the mask cell "${fields[mCol]}" must be a finite number (0 = good, non-zero = bad)`, { ...where, column: String(mCol + 1) });
+      const m = numberAt(fields, mCol, 'mask', file, at);
+      if (!Number.isFinite(m)) throw new InputError('text.bad-mask', `the mask cell "${fields[mCol]}" must be a finite number (0 = good, non-zero = bad)`, { file, line: at, column: String(mCol + 1) });
       mask.push(m !== 0 ? 1 : 0);
     }
   };
@@ -237,10 +236,12 @@ export function parseTextSpectrum(bytes: Uint8Array, name: string, options: Read
 
 /** Handles blank and comment lines; returns false for a content line. */
 function handleNonContent(line: TextLine, meta: CommentMetadata, file: string, logger: Logger | undefined): boolean {
-  const t = line.text.trim();
-  if (t === '') return true;
-  if (t.startsWith('#')) {
-    readCommentMetadata(t, line.number, meta, file, logger);
+  const s = line.text;
+  let i = 0;
+  while (i < s.length && (s.charCodeAt(i) === 32 || s.charCodeAt(i) === 9 || s.charCodeAt(i) === 12)) i++;
+  if (i === s.length) return true;
+  if (s.charCodeAt(i) === 35) {
+    readCommentMetadata(s.trim(), line.number, meta, file, logger);
     return true;
   }
   return false;
@@ -290,18 +291,20 @@ function positionalRoles(ncol: number, file: string, line: number): ColumnRole[]
   return ncol === 2 ? ['wavelength', 'flux'] : ['wavelength', 'flux', 'uncertainty'];
 }
 
-function numberAt(fields: string[], index: number, what: string, where: ErrorLocation): number {
+function numberAt(fields: string[], index: number, what: string, file: string, line: number): number {
   const cell = fields[index];
   const v = parseNumberCell(cell);
   if (v === undefined) {
-    throw new InputError('text.not-a-number', `the ${what} cell "${cell}" is not a number${decimalCommaHint(cell)}`, { ...where, column: String(index + 1) });
+    throw new InputError('text.not-a-number', `the ${what} cell "${cell}" is not a number${decimalCommaHint(cell)}`, { file, line, column: String(index + 1) });
   }
   return v;
 }
 
-function checkOrder(w: number, axis: number[], rowLine: number[], where: ErrorLocation): void {
+function checkOrder(w: number, axis: number[], rowLine: number[], file: string, line: number, wCol: number): void {
   const k = axis.length;
   const prev = axis[k - 1];
+  if (w !== prev && (k < 2 || w > prev === axis[1] > axis[0])) return;
+  const where: ErrorLocation = { file, line, column: String(wCol + 1) };
   if (w === prev) {
     throw new InputError('spectrum.duplicate-wavelength', `wavelength ${w} repeats the value on line ${rowLine[k - 1]}; the axis must be strictly monotonic`, where);
   }

@@ -62,7 +62,7 @@ function cardJson(card: HeaderCard): string {
  * @throws {UsageError} when the flux unit holds a line break (it could not be read back).
  * @example
  * const s = createSpectrum({ wavelength: [6562, 6563], flux: [1, 0.5], unit: 'angstrom', medium: 'air' });
- * formatTextSpectrum(s).split('\n').slice(-3).join('|');
+ * formatTextSpectrum(s).trimEnd().split('\n').slice(-3).join('|');
  * // 'wavelength [Angstrom],flux|6562,1|6563,0.5'
  */
 export function formatTextSpectrum(spectrum: Spectrum, options: TextWriteOptions = {}): string {
