@@ -373,6 +373,11 @@ function readCommentMetadata(t: string, line: number, meta: CommentMetadata, fil
     case 'wavelength unit':
     case 'spectral unit': {
       const u = parseSpectralUnit(value);
+      if (u === undefined && key === 'unit') {
+        // A bare "unit:" may well be the flux unit: not an error.
+        logger?.warn({ code: 'text.unknown-unit', message: `${file}: line ${line}: "${value}" is not a wavelength unit; this comment is ignored` });
+        return;
+      }
       if (u === undefined) throw new InputError('text.unknown-unit', `unknown wavelength unit "${value}" (known: Angstrom, nm, um, pixel)`, where);
       if (meta.unit && meta.unit.value !== u) {
         throw new InputError('text.conflicting-unit', `this comment says the wavelength unit is ${unitSymbol(u)} but line ${meta.unit.line} says ${unitSymbol(meta.unit.value)}`, where);

@@ -45,6 +45,7 @@ const CASES: [string, string | Uint8Array, string, string][] = [
   ['missing flux column', 'wavelength [nm],sigma\n500,1\n', 'text.missing-column', 'bad.csv: line 1: the header row names no flux column (columns: "wavelength [nm]", "sigma")'],
   ['bad mask', 'wavelength [nm],flux,mask\n500,1,nan\n', 'text.bad-mask', 'bad.csv: line 2: column 3: the mask cell "nan" must be a finite number (0 = good, non-zero = bad)'],
   ['conflicting units', '# unit: nm\nwavelength [Angstrom],flux\n5000,1\n', 'text.conflicting-unit', 'bad.csv: line 1: the header row says the wavelength unit is Angstrom but this comment says nm'],
+  ['unknown wavelength unit in a comment', '# wavelength unit: parsec\n500 1\n', 'text.unknown-unit', 'bad.csv: line 1: unknown wavelength unit "parsec" (known: Angstrom, nm, um, pixel)'],
   ['conflicting media', '# medium: air\n# medium: vacuum\n500 1\n', 'text.conflicting-medium', 'bad.csv: line 2: this comment says the medium is vacuum but line 1 says air'],
 ];
 
@@ -69,13 +70,15 @@ describe('parseTextSpectrum: bad input', () => {
     expect(log.warnings).toEqual([{ code: 'text.not-utf8', message: 'latin1.csv: the file is not valid UTF-8; read it as Latin-1' }]);
   });
 
-  it('warns about an unknown medium and a malformed metadata comment, and ignores them', () => {
+  it('warns about an unknown medium, a bare unit that is no wavelength unit and a malformed metadata comment, and ignores them', () => {
     const log = collectingLogger();
-    const s = parseTextSpectrum(enc('# medium: water\n# header: {oops\n500 1\n501 2\n'), 'm.csv', { unit: 'nm', logger: log });
+    const s = parseTextSpectrum(enc('# medium: water\n# header: {oops\n# unit: ADU\n500 1\n501 2\n'), 'm.csv', { unit: 'nm', logger: log });
     expect(s.medium).toBeNull();
+    expect(s.unit).toBe('nm');
     expect(log.warnings).toEqual([
       { code: 'text.unknown-medium', message: 'm.csv: line 1: unknown medium "water" (expected air or vacuum); ignored' },
       { code: 'text.bad-metadata', message: 'm.csv: line 2: a "# header:" comment that is not a header card in JSON; ignored' },
+      { code: 'text.unknown-unit', message: 'm.csv: line 3: "ADU" is not a wavelength unit; this comment is ignored' },
     ]);
   });
 });
