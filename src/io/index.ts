@@ -1,1 +1,2 @@
 export * from './read.js';
+export * from './text/index.js';
