@@ -305,6 +305,11 @@ def make_fixtures():
         warnings.simplefilter('ignore')
         fits.PrimaryHDU(data=shape_flux(N, 15.0).astype('>f4'), header=h).writeto(os.path.join(OUT, 'header_cards.fits'), overwrite=True)
 
+    # CHECKSUM and DATASUM written by astropy (checksum=True), for our verifier.
+    prim = fits.PrimaryHDU(data=shape_flux(N, 16.0).astype('>f4'), header=linear_wcs(base_header(), 'AWAV', 6000.0, 0.4))
+    err = fits.ImageHDU(data=(np.sqrt(shape_flux(N, 16.0)) / 3).astype('>f4'), name='ERROR')
+    fits.HDUList([prim, err]).writeto(os.path.join(OUT, 'checksum_astropy.fits'), overwrite=True, checksum=True)
+
     write_expected()
 
 
@@ -425,6 +430,11 @@ def write_expected():
     with fits.open(os.path.join(OUT, 'image_extension.fits')) as hl:
         files['image_extension.fits']['uncertaintyHex'] = hex64(hl['ERROR'].data.astype(np.float64))
         files['image_extension.fits']['uncertaintyCall'] = "fits.open(path)['ERROR'].data.astype(float64)"
+    files['checksum_astropy.fits'] = image_expectation('checksum_astropy.fits', 0)
+    with fits.open(os.path.join(OUT, 'checksum_astropy.fits'), checksum=True) as hl:
+        files['checksum_astropy.fits']['checksums'] = [
+            {'checksum': int(h.verify_checksum()), 'datasum': int(h.verify_datasum())} for h in hl]
+        files['checksum_astropy.fits']['checksumCall'] = 'fits.open(path, checksum=True); hdu.verify_checksum(), hdu.verify_datasum() (1 = ok)'
     files['table_rows.fits']['medium'] = 'air'
     files['table_vector.fits']['medium'] = 'vacuum'
     files['table_scaled.fits']['medium'] = None
@@ -457,6 +467,7 @@ def read_back(paths):
         entry = {}
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter('always')
+            warnings.simplefilter('ignore', FITSFixedWarning)
             with fits.open(path, checksum=True) as hl:
                 entry['hdus'] = []
                 for hdu in hl:

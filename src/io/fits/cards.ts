@@ -295,7 +295,9 @@ export function formatCard(card: HeaderCard): string[] {
   }
   const s = String(card.value);
   const quoted = quoteString(s);
-  if (prefix.length + quoted.length <= CARD_LENGTH) return [withComment(prefix + quoted, card.comment)];
+  // A short string is padded to a 20-character value field (bytes 11–30), the layout most
+  // writers use; checksum verifiers that re-format the CHECKSUM card expect it.
+  if (prefix.length + quoted.length <= CARD_LENGTH) return [withComment(prefix + (standard ? quoted.padEnd(20, ' ') : quoted), card.comment)];
   return formatLongString(prefix, s, card.comment);
 }
 
