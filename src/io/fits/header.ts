@@ -94,7 +94,7 @@ function joinContinue(raw: readonly { card: RawCard; number: number }[]): { card
       continue;
     }
     if (card.kind !== 'value' && card.kind !== 'commentary') continue;
-    if (card.kind === 'value' && card.rawString !== undefined && continues(card.rawString) && raw[i + 1]?.card.kind === 'continue') {
+    if (card.kind === 'value' && card.rawString !== undefined && continues(card.rawString) && isStringContinue(raw[i + 1]?.card)) {
       let text = card.rawString.trimEnd().slice(0, -1);
       const comments = card.card.comment !== undefined ? [card.card.comment] : [];
       let j = i + 1;
@@ -103,7 +103,7 @@ function joinContinue(raw: readonly { card: RawCard; number: number }[]): { card
         if (next.kind !== 'continue' || next.text === undefined) break;
         if (next.comment !== undefined && next.comment !== '') comments.push(next.comment);
         j++;
-        if (continues(next.text) && raw[j]?.card.kind === 'continue') {
+        if (continues(next.text) && isStringContinue(raw[j]?.card)) {
           text += next.text.trimEnd().slice(0, -1);
         } else {
           text += next.text;
@@ -121,6 +121,10 @@ function joinContinue(raw: readonly { card: RawCard; number: number }[]): { card
     numbers.push(number);
   }
   return { cards, numbers };
+}
+
+function isStringContinue(card: RawCard | undefined): boolean {
+  return card?.kind === 'continue' && card.text !== undefined;
 }
 
 function continues(s: string): boolean {

@@ -216,6 +216,9 @@ function requiredInteger(where: Where, keyword: string, ctx: FitsContext, allowH
   if (card === undefined) {
     throw fitsError(ctx, 'fits.missing-keyword', `the mandatory keyword ${keyword} is missing (FITS Standard 4.0 §4.4.1)`, { hdu: where.index, keyword });
   }
+  if (card.rawValue !== undefined) {
+    throw fitsError(ctx, 'fits.bad-keyword-value', `${keyword} must be an integer, not ${card.rawValue} (FITS Standard 4.0 §4.4.1)`, keywordLocation(where, keyword));
+  }
   return integerValue(where, keyword, card.value, ctx, allowHuge);
 }
 
