@@ -30,6 +30,11 @@ export interface SpectralAxis {
   readonly unit: SpectralUnit;
   readonly medium: Medium;
   readonly convention: AxisConvention;
+  /**
+   * True when the axis is finite and strictly monotonic by construction (a linear axis
+   * whose step is far above float64 rounding), so that checking it again can be skipped.
+   */
+  readonly checked: boolean;
 }
 
 /** Options that supply what the file does not say. */
@@ -169,14 +174,19 @@ export function spectralAxis(hdu: FitsHdu, n: number, ctx: FitsContext, defaults
     for (let i = 0; i < n; i++) wavelength[i] = 10 ** (ref + step * (i + 1 - crpix));
   }
   if (f !== 1) for (let i = 0; i < n; i++) wavelength[i] *= f;
-  return { wavelength, unit: unit.unit, medium: unit.unit === 'pixel' ? null : axisMedium(hdu, ctype, ctx, defaults), convention };
+  // A linear axis v_i = ref + step·k_i is strictly monotonic when |step| exceeds the rounding
+  // of the product and the sum, each at most half an ulp of the largest |v| (≈ 2^-53·max|v|);
+  // a margin of 16·2^-52·max|v| covers both with room, and max|v| < 1e300 keeps it finite.
+  const maxAbs = Math.max(Math.abs(ref), Math.abs(ref + step * (1 - crpix)), Math.abs(ref + step * (n - crpix)));
+  const checked = convention === 'linear' && f === 1 && Number.isFinite(maxAbs) && maxAbs < 1e300 && Math.abs(step) > 16 * 2 ** -52 * maxAbs;
+  return { wavelength, unit: unit.unit, medium: unit.unit === 'pixel' ? null : axisMedium(hdu, ctype, ctx, defaults), convention, checked };
 }
 
 /** The pixel-index axis 0 … n−1 (see {@link PIXEL_INDEX_ORIGIN}). */
 export function pixelIndexAxis(n: number): SpectralAxis {
   const wavelength = new Float64Array(n);
   for (let i = 0; i < n; i++) wavelength[i] = i + PIXEL_INDEX_ORIGIN;
-  return { wavelength, unit: 'pixel', medium: null, convention: 'pixel-index' };
+  return { wavelength, unit: 'pixel', medium: null, convention: 'pixel-index', checked: true };
 }
 
 function axisUnit(hdu: FitsHdu, ctype: CtypeInfo, convention: AxisConvention, crval: number, ctx: FitsContext, defaults: AxisDefaults): ResolvedUnit {
