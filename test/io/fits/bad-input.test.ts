@@ -137,6 +137,11 @@ describe('FITS reader: data and WCS errors', () => {
     expectFailure(wcs([card('BSCALE', "'2'")]), 'fits.bad-keyword-value', 'bad.fits: HDU 0: card 5 (BSCALE): BSCALE must be a number, not "2"');
   });
 
+  it('rejects a linear WCS whose step is below float64 resolution (repeated wavelengths)', () => {
+    const bytes = buildFits([{ cards: primary1d(5, [card('CRVAL1', '1.0E10'), card('CDELT1', '1.0E-7'), card('CRPIX1', '1.0'), card('CUNIT1', "'Angstrom'")]), data: FLUX }]);
+    expectFailure(bytes, 'spectrum.duplicate-wavelength', 'bad.fits: HDU 0: index 1: wavelength 10000000000 is repeated at pixels 0 and 1');
+  });
+
   it('rejects non-monotonic, duplicated and NaN wavelengths in a table', () => {
     const table = (waves: number[]) => buildFits([
       { cards: [card('SIMPLE', 'T'), card('BITPIX', '8'), card('NAXIS', '0'), card('EXTEND', 'T')] },

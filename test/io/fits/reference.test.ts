@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../src/errors.js';
 import { readSpectrum } from '../../../src/io/read.js';
+import { createSpectrum } from '../../../src/spectrum/spectrum.js';
 import { angstromPerUnit } from '../../../src/spectrum/units.js';
 import { asPyCard, fixture, hex64, normalisePy, type PyValue } from './helpers.js';
 
@@ -71,6 +72,15 @@ describe(`FITS reader against astropy ${doc.astropy} (test/fixtures/fits/expecte
     const s = readSpectrum(fixture(name));
     const ours = s.header.cards.slice(0, e.cards.length).map((c) => normalisePy(asPyCard(c)));
     expect(ours).toEqual(e.cards.map(normalisePy));
+  });
+
+  it('returns a frozen Spectrum of the same shape as createSpectrum, with provenance and source', () => {
+    const s = readSpectrum(fixture('image_extension.fits'));
+    const made = createSpectrum({ wavelength: s.wavelength, flux: s.flux, uncertainty: s.uncertainty, unit: s.unit, medium: s.medium, fluxUnit: s.fluxUnit, header: s.header, provenance: s.provenance, source: s.source });
+    expect(Object.keys(s).sort()).toEqual(Object.keys(made).sort());
+    expect(Object.isFrozen(s)).toBe(true);
+    expect(s.source).toEqual({ file: fixture('image_extension.fits'), hdu: 1, format: 'fits' });
+    expect(s.provenance.map((p) => [p.step, p.parameters])).toEqual([['read-fits', { file: 'image_extension.fits', hdu: 1 }]]);
   });
 
   it('reports the 2-D image with its size', () => {
