@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../src/errors.js';
+import { parseFitsSpectrum } from '../../../src/io/fits/spectrum.js';
 import { readSpectrum } from '../../../src/io/read.js';
 import { createSpectrum } from '../../../src/spectrum/spectrum.js';
 import { angstromPerUnit } from '../../../src/spectrum/units.js';
@@ -81,6 +82,15 @@ describe(`FITS reader against astropy ${doc.astropy} (test/fixtures/fits/expecte
     expect(Object.isFrozen(s)).toBe(true);
     expect(s.source).toEqual({ file: fixture('image_extension.fits'), hdu: 1, format: 'fits' });
     expect(s.provenance.map((p) => [p.step, p.parameters])).toEqual([['read-fits', { file: 'image_extension.fits', hdu: 1 }]]);
+  });
+
+  it('leaves the bytes it reads untouched', () => {
+    for (const name of ['table_scaled.fits', 'uint64.fits', 'image_extension.fits']) {
+      const bytes = new Uint8Array(readFileSync(fixture(name)));
+      const copy = bytes.slice();
+      parseFitsSpectrum(bytes, name);
+      expect(Buffer.from(bytes).equals(Buffer.from(copy))).toBe(true);
+    }
   });
 
   it('reports the 2-D image with its size', () => {
