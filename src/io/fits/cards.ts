@@ -257,6 +257,9 @@ export function quoteString(s: string): string {
 /** Longest `KEYWORD = ` prefix that leaves room for a value (HIERARCH keywords can be long). */
 const MAX_PREFIX = 60;
 
+/** Longest keyword written with the HIERARCH convention (`HIERARCH ` + keyword + ` = ` ≤ {@link MAX_PREFIX}). */
+export const MAX_HIERARCH_KEYWORD = MAX_PREFIX - 12;
+
 function pad80(s: string): string {
   return s.length >= CARD_LENGTH ? s.slice(0, CARD_LENGTH) : s.padEnd(CARD_LENGTH, ' ');
 }

@@ -5,7 +5,7 @@
  * has one.
  */
 import { basename } from 'node:path';
-import { InputError } from '../../errors.js';
+import { InputError, UsageError } from '../../errors.js';
 import { Header, type HeaderCard } from '../../spectrum/header.js';
 import { provenanceEntry } from '../../spectrum/provenance.js';
 import { checkSpectralAxis, createSpectrum, type Medium, type SpectralUnit, type Spectrum } from '../../spectrum/spectrum.js';
@@ -107,8 +107,9 @@ function classify(hdu: FitsHdu, ctx: FitsContext): Candidate {
  *   does not say; `logger` receives warnings.
  * @returns a validated spectrum; `source.hdu` says which HDU was read.
  * @throws {InputError} for a malformed file (naming the HDU, card and keyword), a file
- *   without a 1-D spectrum (a 2-D image is reported with its size), or a spectral axis
- *   that is not finite and strictly monotonic.
+ *   without a 1-D spectrum (a 2-D image is reported with its size), an `options.hdu` the
+ *   file does not have, or a spectral axis that is not finite and strictly monotonic.
+ * @throws {UsageError} when `options.hdu` is not an integer 0 or more.
  * @example
  * const s = parseFitsSpectrum(readFileSync('data/samples/lvac7-star.fits'), 'lvac7-star.fits');
  * [s.unit, s.medium, s.source?.hdu]; // ['angstrom', 'air', 0]
@@ -120,8 +121,9 @@ export function parseFitsSpectrum(bytes: Uint8Array, name: string, options: Read
   let candidate: Candidate | undefined;
   if (options.hdu !== undefined) {
     const i = options.hdu;
-    if (!Number.isInteger(i) || i < 0 || i >= hdus.length) {
-      throw new InputError('fits.no-such-hdu', `HDU ${i} does not exist: the file has ${hdus.length} HDU${hdus.length === 1 ? '' : 's'} (0 to ${hdus.length - 1})`, { file: name, keyword: 'hdu' });
+    if (!Number.isInteger(i) || i < 0) throw new UsageError('fits.bad-hdu-option', `the HDU number must be an integer 0 or more, not ${i}`);
+    if (i >= hdus.length) {
+      throw new InputError('fits.no-such-hdu', `HDU ${i} does not exist: the file has ${hdus.length} HDU${hdus.length === 1 ? '' : 's'} (0 to ${hdus.length - 1})`, { file: name });
     }
     chosen = hdus[i];
     candidate = classify(chosen, ctx);

@@ -8,11 +8,11 @@ import { closeSync, existsSync, fsyncSync, openSync, realpathSync, renameSync, s
 import { basename, dirname, join, resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { silentLogger, type Logger } from '../../logger.js';
-import type { HeaderCard } from '../../spectrum/header.js';
+import { isCommentaryKeyword, type HeaderCard } from '../../spectrum/header.js';
 import { formatProvenance } from '../../spectrum/provenance.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
 import { unitSymbol } from '../../spectrum/units.js';
-import { BLOCK_LENGTH, CARD_LENGTH, CardProblem, formatCard, formatReal } from './cards.js';
+import { BLOCK_LENGTH, CARD_LENGTH, CardProblem, MAX_HIERARCH_KEYWORD, formatCard, formatReal, isStandardKeyword } from './cards.js';
 import { addOnesComplement, encodeChecksum, onesComplementSum } from './checksum.js';
 
 /** Options of {@link encodeFitsSpectrum} and {@link writeFitsSpectrum}. */
@@ -132,6 +132,14 @@ function keptCards(s: Spectrum, logger: Logger): HeaderCard[] {
   const out: HeaderCard[] = [];
   for (const card of s.header.cards) {
     if (card.value !== undefined ? isRewrittenKeyword(card.keyword) : card.keyword === 'CONTINUE') continue;
+    if (card.value === undefined && !isCommentaryKeyword(card.keyword) && !isStandardKeyword(card.keyword)) {
+      logger.warn({ code: 'fits.card-not-written', message: `header card ${card.keyword} has no value and a keyword longer than 8 characters, which FITS cannot hold; not written` });
+      continue;
+    }
+    if (card.value !== undefined && !isStandardKeyword(card.keyword) && card.keyword.length > MAX_HIERARCH_KEYWORD) {
+      logger.warn({ code: 'fits.card-not-written', message: `header card ${card.keyword.slice(0, 20)}… has a keyword of ${card.keyword.length} characters, too long even for a HIERARCH card; not written` });
+      continue;
+    }
     if (typeof card.value === 'number' && !Number.isFinite(card.value)) {
       logger.warn({ code: 'fits.card-not-written', message: `header card ${card.keyword} = ${card.value} is not a finite number and was not written` });
       continue;

@@ -4,7 +4,7 @@
  * warnings. Messages are asserted in full.
  */
 import { describe, expect, it } from 'vitest';
-import { InputError, type LineshiftError } from '../../../src/errors.js';
+import { InputError, UsageError, type LineshiftError } from '../../../src/errors.js';
 import { parseFitsSpectrum } from '../../../src/io/fits/spectrum.js';
 import { parseSpectrum } from '../../../src/io/read.js';
 import { collectingLogger } from '../../../src/logger.js';
@@ -111,7 +111,9 @@ describe('FITS reader: data and WCS errors', () => {
   });
 
   it('rejects an HDU number that does not exist, and an HDU without a spectrum', () => {
-    expectFailure(good(), 'fits.no-such-hdu', 'bad.fits: keyword hdu: HDU 3 does not exist: the file has 1 HDU (0 to 0)', { hdu: 3 });
+    expectFailure(good(), 'fits.no-such-hdu', 'bad.fits: HDU 3 does not exist: the file has 1 HDU (0 to 0)', { hdu: 3 });
+    expect(() => parseFitsSpectrum(good(), 'x.fits', { hdu: -1 })).toThrow(UsageError);
+    expect(() => parseFitsSpectrum(good(), 'x.fits', { hdu: 1.5 })).toThrow('the HDU number must be an integer 0 or more, not 1.5');
     expectFailure(fixtureBytes('multi_hdu.fits'), 'fits.no-spectrum', 'bad.fits: HDU 0 holds no data, not a 1-D spectrum', { hdu: 0 });
     expectFailure(fixtureBytes('multi_hdu.fits'), 'fits.image-not-spectrum', 'bad.fits: HDU 1 holds a 2-D image of 30×20 pixels, not a 1-D spectrum; extract the spectrum first', { hdu: 1 });
     expect(parseFitsSpectrum(fixtureBytes('multi_hdu.fits'), 'm.fits', { hdu: 2 }).source?.hdu).toBe(2);

@@ -187,6 +187,15 @@ describe('encodeFitsSpectrum / parseFitsSpectrum round trip', () => {
     expect(log.warnings.map((w) => w.code).sort()).toEqual(['fits.card-non-ascii', 'fits.card-not-written']);
   });
 
+  it('skips, with a warning, cards FITS cannot hold', () => {
+    const log = collectingLogger();
+    const s = spectrum({ header: Header.from([{ keyword: 'K'.repeat(70), value: 1 }, { keyword: 'LONG TEXT KEY', text: 'no value' }, { keyword: 'KEPT', value: 2 }]) });
+    const r = parseFitsSpectrum(encodeFitsSpectrum(s, { logger: log }), 'k.fits');
+    expect(r.header.get('KEPT')).toBe(2);
+    expect(r.header.has('K'.repeat(70))).toBe(false);
+    expect(log.warnings.map((w) => w.code)).toEqual(['fits.card-not-written', 'fits.card-not-written']);
+  });
+
   it('rejects bad options with a UsageError', () => {
     expect(() => encodeFitsSpectrum(spectrum(), { dataType: 'int16' as never })).toThrow(UsageError);
     expect(() => encodeFitsSpectrum(spectrum(), { layout: 'spline' as never })).toThrow(/layout must be/);
@@ -233,8 +242,8 @@ describe('writeFitsSpectrum', () => {
 
   it('never leaves a partial file when encoding fails', () => {
     const folder = mkdtempSync(join(dir, 'f-'));
-    const s = spectrum({ header: Header.from([{ keyword: 'K'.repeat(70), value: 1 }]) });
-    expect(() => writeFitsSpectrum(join(folder, 'x.fits'), s)).toThrow(UsageError);
+    const s = spectrum({ wavelength: Array.from({ length: N }, (_, i) => -100 + i) });
+    expect(() => writeFitsSpectrum(join(folder, 'x.fits'), s, { layout: 'log-linear' })).toThrow(UsageError);
     expect(readdirSync(folder)).toEqual([]);
   });
 
