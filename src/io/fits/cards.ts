@@ -57,7 +57,7 @@ const REAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[EeDd][+-]?\d+)?$/;
 const REAL_PART = String.raw`[+-]?(?:\d+\.?\d*|\.\d+)(?:[EeDd][+-]?\d+)?`;
 const COMPLEX = new RegExp(String.raw`^\(\s*${REAL_PART}\s*,\s*${REAL_PART}\s*\)$`);
 
-/** Signals that a value field could not be read as any FITS type; the caller decides how strict to be. */
+/** What {@link parseValueField} finds in a value field. */
 export interface ValueFieldResult {
   value: CardValue;
   rawValue?: string;
