@@ -182,7 +182,7 @@ function tableSpectrum(
   const { layout, wavelength: wcol, flux: fcol } = c;
   // Either one row per pixel (scalar columns) or one row holding vector columns.
   let perRow: boolean;
-  if (wcol.repeat === 1 && fcol.repeat === 1) perRow = true;
+  if (wcol.repeat === 1) perRow = true;
   else if (layout.rows === 1) perRow = false;
   else {
     throw fitsError(ctx, 'fits.table-layout', `the table has ${layout.rows} rows with ${wcol.repeat} values of ${wcol.name} each; lineshift reads either one row per pixel or one row holding the whole spectrum`, { hdu: hdu.index, column: wcol.name });

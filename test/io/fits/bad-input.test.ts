@@ -158,6 +158,16 @@ describe('FITS reader: data and WCS errors', () => {
     expectFailure(table([1, NaN, 3, 4]), 'spectrum.bad-wavelength', 'bad.fits: HDU 1: index 1: wavelength at pixel 1 is NaN, not a finite number');
   });
 
+  it('rejects a table whose rows run past the end of the file, and a vector column in a row-per-pixel table', () => {
+    const bytes = fixtureBytes('table_rows.fits');
+    expectFailure(bytes.slice(0, 2880 * 2 + 1000), 'fits.data-beyond-end', 'bad.fits: HDU 1: byte 5760: the header declares 1600 bytes of data (NAXIS1 × NAXIS2) but the file has only 1000 bytes after this header: the file is truncated or an NAXISn is wrong (FITS Standard 4.0 §4.4.1)');
+    const mixed = buildFits([
+      { cards: [card('SIMPLE', 'T'), card('BITPIX', '8'), card('NAXIS', '0')] },
+      { cards: [card('XTENSION', "'BINTABLE'"), card('BITPIX', '8'), card('NAXIS', '2'), card('NAXIS1', '16'), card('NAXIS2', '3'), card('PCOUNT', '0'), card('GCOUNT', '1'), card('TFIELDS', '2'), card('TTYPE1', "'WAVE'"), card('TFORM1', "'1D'"), card('TTYPE2', "'FLUX'"), card('TFORM2', "'2E'")], data: new Uint8Array(48) },
+    ]);
+    expectFailure(mixed, 'fits.column-length', 'bad.fits: HDU 1: column FLUX: column FLUX holds 2 values per row, but the table has one pixel per row (column WAVE holds 1)');
+  });
+
   it('rejects bad TFORMs, columns wider than a row, and vector columns of different lengths', () => {
     const bintable = (extra: string[], naxis1 = 12, data = new Uint8Array(12)) => buildFits([
       { cards: [card('SIMPLE', 'T'), card('BITPIX', '8'), card('NAXIS', '0')] },
