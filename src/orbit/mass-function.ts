@@ -11,7 +11,7 @@
  * Masses are in nominal solar masses: G M is divided by (GM)☉ᴺ (IAU 2015 B3).
  */
 import { UsageError } from '../errors.js';
-import { GM_SUN_NOMINAL_M3_PER_S2, SECONDS_PER_DAY } from './constants.js';
+import { GM_SUN_M3_PER_S2, SECONDS_PER_DAY } from '../velocity/constants.js';
 import { messages } from './messages.js';
 
 /** A measured value and its 1-σ uncertainty (same unit). */
@@ -44,7 +44,7 @@ function checkPKE(periodDays: number, kKmPerS: number, e: number): void {
 export function massFunction(periodDays: number, semiAmplitudeKmPerS: number, eccentricity: number): number {
   checkPKE(periodDays, semiAmplitudeKmPerS, eccentricity);
   const k = Math.abs(semiAmplitudeKmPerS) * 1000;
-  return (periodDays * SECONDS_PER_DAY * k * k * k * Math.pow(1 - eccentricity * eccentricity, 1.5)) / (2 * Math.PI * GM_SUN_NOMINAL_M3_PER_S2);
+  return (periodDays * SECONDS_PER_DAY * k * k * k * Math.pow(1 - eccentricity * eccentricity, 1.5)) / (2 * Math.PI * GM_SUN_M3_PER_S2);
 }
 
 /**
@@ -85,7 +85,7 @@ export function minimumMasses(periodDays: number, k1KmPerS: number, k2KmPerS: nu
   checkPKE(periodDays, k2KmPerS, eccentricity);
   const k1 = Math.abs(k1KmPerS) * 1000;
   const k2 = Math.abs(k2KmPerS) * 1000;
-  const c = (periodDays * SECONDS_PER_DAY * Math.pow(1 - eccentricity * eccentricity, 1.5) * (k1 + k2) * (k1 + k2)) / (2 * Math.PI * GM_SUN_NOMINAL_M3_PER_S2);
+  const c = (periodDays * SECONDS_PER_DAY * Math.pow(1 - eccentricity * eccentricity, 1.5) * (k1 + k2) * (k1 + k2)) / (2 * Math.PI * GM_SUN_M3_PER_S2);
   return { m1SinI3SolarMass: c * k2, m2SinI3SolarMass: c * k1 };
 }
 

@@ -8,7 +8,7 @@ import { runCli } from '../../src/cli/run.js';
 import { collectingLogger } from '../../src/logger.js';
 import { radialVelocityKmPerS, type KeplerianOrbit } from '../../src/orbit/keplerian.js';
 import { createVelocityTable, formatVelocityTableCsv, formatVelocityTableJson } from '../../src/orbit/table.js';
-import { gaussian, mulberry32 } from '../orbit/random.js';
+import { gaussian, mulberry32 } from '../helpers/random.js';
 
 function capture(): CommandIO & { out: string; err: string; warnings: ReturnType<typeof collectingLogger> } {
   const warnings = collectingLogger();

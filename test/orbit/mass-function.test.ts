@@ -1,13 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import { UsageError } from '../../src/errors.js';
-import { ASTRONOMICAL_UNIT_M, GM_SUN_NOMINAL_M3_PER_S2, SECONDS_PER_DAY } from '../../src/orbit/constants.js';
+import { GM_SUN_M3_PER_S2, METERS_PER_AU, SECONDS_PER_DAY } from '../../src/velocity/constants.js';
 import { massFunction, minimumMasses, projectedSemiMajorAxisKm, propagateUncertainty } from '../../src/orbit/mass-function.js';
-import { gaussian, mulberry32 } from './random.js';
+import { gaussian, mulberry32 } from '../helpers/random.js';
 
 /** K of star 1 for masses m1, m2 (solar), inclination i, period P (d), eccentricity e, from Kepler's third law. */
 function k1FromMasses(m1: number, m2: number, iDeg: number, P: number, e: number): number {
   const Ps = P * SECONDS_PER_DAY;
-  const a = Math.cbrt((GM_SUN_NOMINAL_M3_PER_S2 * (m1 + m2) * Ps * Ps) / (4 * Math.PI * Math.PI)); // relative orbit, m
+  const a = Math.cbrt((GM_SUN_M3_PER_S2 * (m1 + m2) * Ps * Ps) / (4 * Math.PI * Math.PI)); // relative orbit, m
   const a1 = (a * m2) / (m1 + m2);
   return (2 * Math.PI * a1 * Math.sin((iDeg * Math.PI) / 180)) / (Ps * Math.sqrt(1 - e * e)) / 1000;
 }
@@ -25,9 +25,9 @@ describe('massFunction', () => {
     // (GM)☉ and the au of IAU 2012 reproduce k² au³/d².
     const k = 0.01720209895;
     const P = (2 * Math.PI) / k;
-    const K = (ASTRONOMICAL_UNIT_M * k) / SECONDS_PER_DAY / 1000;
+    const K = (METERS_PER_AU * k) / SECONDS_PER_DAY / 1000;
     expect(Math.abs(massFunction(P, K, 0) - 1)).toBeLessThan(1e-8);
-    expect(projectedSemiMajorAxisKm(P, K, 0)).toBeCloseTo(ASTRONOMICAL_UNIT_M / 1000, 0);
+    expect(projectedSemiMajorAxisKm(P, K, 0)).toBeCloseTo(METERS_PER_AU / 1000, 0);
   });
 
   it('equals m₂³ sin³i / (m₁ + m₂)² for orbits built from Kepler\'s third law (analytic identity)', () => {

@@ -6,8 +6,9 @@ import { radialVelocityKmPerS, type KeplerianOrbit } from '../../src/orbit/keple
 import { massFunction, minimumMasses } from '../../src/orbit/mass-function.js';
 import { fitOrbit, lucySweeneyProbability, type OrbitFit } from '../../src/orbit/orbit-fit.js';
 import { createVelocityTable } from '../../src/orbit/table.js';
+import { GM_SUN_M3_PER_S2 } from '../../src/velocity/constants.js';
 import { repoPath } from '../helpers/paths.js';
-import { gaussian, mulberry32 } from './random.js';
+import { gaussian, mulberry32 } from '../helpers/random.js';
 import { syntheticOrbit } from './synthetic.js';
 
 interface ScipyCase {
@@ -132,8 +133,8 @@ describe('fitOrbit injection and recovery (simulation)', () => {
       const sinI = Math.sin((40 + 50 * rand()) * Math.PI / 180);
       const P = Math.exp(Math.log(2) + rand() * Math.log(40));
       const e = 0.6 * rand();
-      // Kepler's third law with the IAU nominal (GM)☉: K₁ = 2π a₁ sin i /(P √(1 − e²))
-      const a = Math.cbrt(1.3271244e20 * (m1 + m2) * (P * 86400) ** 2 / (4 * Math.PI ** 2));
+      // Kepler's third law with the IAU 2015 nominal (GM)☉: K₁ = 2π a₁ sin i /(P √(1 − e²))
+      const a = Math.cbrt(GM_SUN_M3_PER_S2 * (m1 + m2) * (P * 86400) ** 2 / (4 * Math.PI ** 2));
       const K1 = (2 * Math.PI * a * m2 / (m1 + m2) * sinI) / (P * 86400 * Math.sqrt(1 - e * e)) / 1000;
       const K2 = K1 * m1 / m2;
       const truth: KeplerianOrbit = { periodDays: P, periastronTimeBjdTdb: 2460500 + P * rand(), eccentricity: e, omegaDeg: 360 * rand(), semiAmplitudeKmPerS: K1, systemicVelocityKmPerS: 30 * (rand() - 0.5), semiAmplitude2KmPerS: K2 };

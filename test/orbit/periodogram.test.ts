@@ -4,7 +4,7 @@ import { InputError, UsageError } from '../../src/errors.js';
 import { baluevFalseAlarmProbability, lombScarglePower, velocityPeriodogram, type PeriodogramNormalization } from '../../src/orbit/periodogram.js';
 import { createVelocityTable } from '../../src/orbit/table.js';
 import { repoPath } from '../helpers/paths.js';
-import { gaussian, mulberry32 } from './random.js';
+import { gaussian, mulberry32 } from '../helpers/random.js';
 
 interface AstropyCase {
   name: string; t: number[]; y: number[]; dy: number[]; frequency: number[];

@@ -12,7 +12,7 @@
  */
 import { radialVelocityKmPerS, type KeplerianOrbit } from '../../src/orbit/keplerian.js';
 import { createVelocityTable, type VelocityTable } from '../../src/orbit/table.js';
-import { gaussian, mulberry32 } from './random.js';
+import { gaussian, mulberry32 } from '../helpers/random.js';
 
 export interface SyntheticOrbit {
   truth: KeplerianOrbit;
