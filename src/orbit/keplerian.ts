@@ -57,7 +57,7 @@ export function radialVelocityKmPerS(orbit: KeplerianOrbit, bjdTdb: ArrayLike<nu
   if (!(e >= 0 && e < 1)) throw new UsageError('orbit.bad-eccentricity', messages.badEccentricity(e));
   let K = orbit.semiAmplitudeKmPerS;
   if (star === 'secondary') {
-    if (orbit.semiAmplitude2KmPerS === undefined) throw new UsageError('orbit.no-k2', 'the orbit has no semiAmplitude2KmPerS for the secondary star');
+    if (orbit.semiAmplitude2KmPerS === undefined) throw new UsageError('orbit.no-k2', messages.noK2());
     K = -orbit.semiAmplitude2KmPerS;
   }
   const w = (orbit.omegaDeg * Math.PI) / 180;

@@ -39,7 +39,7 @@ function checkPKE(periodDays: number, kKmPerS: number, e: number): void {
  * @returns f(m) in nominal solar masses.
  * @throws {UsageError} for P ≤ 0, non-finite K, or e outside [0, 1).
  * @example
- * massFunction(10, 30, 0); // ≈ 0.02797 M☉
+ * massFunction(10, 30, 0); // ≈ 0.027976 M☉
  */
 export function massFunction(periodDays: number, semiAmplitudeKmPerS: number, eccentricity: number): number {
   checkPKE(periodDays, semiAmplitudeKmPerS, eccentricity);
@@ -78,7 +78,7 @@ export function projectedSemiMajorAxisKm(periodDays: number, semiAmplitudeKmPerS
  * @returns `{ m1SinI3SolarMass, m2SinI3SolarMass }`.
  * @throws {UsageError} as {@link massFunction}.
  * @example
- * minimumMasses(10, 50, 60, 0).m1SinI3SolarMass; // ≈ 0.821
+ * minimumMasses(10, 50, 60, 0).m1SinI3SolarMass; // ≈ 0.752
  */
 export function minimumMasses(periodDays: number, k1KmPerS: number, k2KmPerS: number, eccentricity: number): { m1SinI3SolarMass: number; m2SinI3SolarMass: number } {
   checkPKE(periodDays, k1KmPerS, eccentricity);
@@ -102,7 +102,7 @@ export function minimumMasses(periodDays: number, k1KmPerS: number, k2KmPerS: nu
 export function propagateUncertainty(gradient: ArrayLike<number>, covariance: readonly (readonly number[])[]): number {
   const n = gradient.length;
   if (covariance.length !== n || covariance.some((r) => r.length !== n)) {
-    throw new UsageError('orbit.covariance-size', `the covariance must be ${n}×${n} for ${n} gradient values`);
+    throw new UsageError('orbit.covariance-size', messages.covarianceSize(n));
   }
   let s = 0;
   for (let i = 0; i < n; i++) {

@@ -55,6 +55,9 @@ export const messages = {
   badPeriod: (p: number) => `period must be positive and finite, got ${fmt(p)} d`,
   badSemiAmplitude: (k: number) => `semi-amplitude must be finite, got ${fmt(k)} km/s`,
 
+  noK2: () => 'the orbit has no semiAmplitude2KmPerS for the secondary star',
+  covarianceSize: (n: number) => `the covariance must be ${n}×${n} for ${n} gradient values`,
+  cliBadJitter: (text: string) => `option --jitter needs "estimate" or a number ≥ 0 (km/s), got "${text}"`,
   noSecondary: () => 'a double-lined fit needs velocity2_km_s and uncertainty2_km_s columns with at least one value',
   fitLargeChi2: (reducedChi2: number) =>
     `reduced chi-square of the orbit fit is ${reducedChi2.toFixed(2)}: the uncertainties look too small or the model does not fit; consider a jitter term`,

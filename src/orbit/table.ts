@@ -144,7 +144,14 @@ export function createVelocityTable(init: VelocityTableInit, where: ErrorLocatio
   return Object.freeze(table);
 }
 
-/** True when the table has a second-star velocity in at least one row. */
+/**
+ * Whether a table holds velocities of a second star (a double-lined binary).
+ *
+ * @param table the table.
+ * @returns true when `velocity2KmPerS` exists and at least one row has a value (not NaN).
+ * @example
+ * isDoubleLined(parseVelocityTable('bjd_tdb,velocity_km_s,uncertainty_km_s\n1,2,1\n', 'x.csv')); // false
+ */
 export function isDoubleLined(table: VelocityTable): boolean {
   const v2 = table.velocity2KmPerS;
   if (!v2) return false;

@@ -2,6 +2,7 @@ import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import type { Measured } from '../../orbit/mass-function.js';
+import { messages } from '../../orbit/messages.js';
 import { fitOrbit, type OrbitFit } from '../../orbit/orbit-fit.js';
 import { parseVelocityTable } from '../../orbit/table.js';
 import { flagOption, numberOption, stringOption, type Command } from '../command.js';
@@ -123,7 +124,7 @@ gives the mass ratio and m sin^3 i of each.`,
     if (jitterText !== undefined) {
       jitter = jitterText === 'estimate' ? 'estimate' : Number(jitterText);
       if (jitter !== 'estimate' && (jitterText.trim() === '' || !(jitter >= 0) || !Number.isFinite(jitter))) {
-        throw new UsageError('cli.bad-jitter', `option --jitter needs "estimate" or a number ≥ 0 (km/s), got "${jitterText}"`);
+        throw new UsageError('cli.bad-jitter', messages.cliBadJitter(jitterText));
       }
     }
     const table = parseVelocityTable(readFileSync(resolve(io.cwd, file), 'utf8'), file, { logger: io.logger });
