@@ -3,8 +3,8 @@
  * and the source of each value beside it.
  */
 
-/** Speed of light in vacuum, km/s. Exact by the SI definition of the metre (1983). */
-export const SPEED_OF_LIGHT_KM_PER_S = 299_792.458;
+/** Speed of light in vacuum, km/s (defined once, in the spectrum area, which the velocity area builds on). */
+export { SPEED_OF_LIGHT_KM_PER_S } from '../spectrum/constants.js';
 
 /** Speed of light in vacuum, m/s. Exact by the SI definition of the metre (1983). */
 export const SPEED_OF_LIGHT_M_PER_S = 299_792_458;
