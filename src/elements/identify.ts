@@ -9,9 +9,9 @@
  */
 import { UsageError } from '../errors.js';
 import { silentLogger, type Logger } from '../logger.js';
+import { airToVacuum, vacuumToAir } from '../spectrum/air-vacuum.js';
 import { provenanceEntry, type ProvenanceEntry } from '../spectrum/provenance.js';
 import { buildFeatures, isSummaryRow, type Feature, type PlacedLine } from './features.js';
-import { listWavelengthInMedium } from './medium.js';
 import {
   badCoverageMessage,
   badKindMessage,
@@ -274,7 +274,8 @@ function median(values: number[]): number {
  * Identifies found lines with list lines and weighs the evidence for each species.
  *
  * Method (details and thresholds in DEVELOPERS.md, "Element identification"):
- * 1. List lines are converted to the spectrum's medium (Peck & Reeder 1972), Doppler-shifted
+ * 1. List lines are converted to the spectrum's medium (`airToVacuum`/`vacuumToAir`, Peck &
+ *    Reeder 1972, the formula of the shipped lists), Doppler-shifted
  *    (relativistic) by `velocityKmPerS`, and merged per species into features where closer than
  *    λ/R. Multiplet-centroid summary rows are dropped (their components are listed).
  * 2. A found line matches a feature when |Δλ| ≤ τ ({@link matchToleranceAngstrom}). Forbidden
@@ -425,7 +426,8 @@ export function identifyLines(
   const bySpecies = new Map<string, PlacedLine[]>();
   for (const line of reference) {
     if (!isAtomicSpecies(line.species) || isSummaryRow(line)) continue;
-    const inMedium = listWavelengthInMedium(line.wavelengthAngstrom, line.medium ?? 'air', medium);
+    const from = line.medium ?? 'air';
+    const inMedium = from === medium ? line.wavelengthAngstrom : medium === 'vacuum' ? airToVacuum(line.wavelengthAngstrom) : vacuumToAir(line.wavelengthAngstrom);
     const placed: PlacedLine = { line, expectedAngstrom: inMedium * doppler };
     const list = bySpecies.get(line.species);
     if (list) list.push(placed);

@@ -1,8 +1,6 @@
-import { existsSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { identifyLines } from '../../src/elements/identify.js';
 import { telluricBandsFromLines } from '../../src/elements/telluric.js';
-import { describeWithShared, repoPath } from '../helpers/paths.js';
 import { allLists, listsOf } from './lists.js';
 import { SCENARIOS, simulateFoundLines, simulateNoiseLines } from './simulate.js';
 
@@ -12,14 +10,11 @@ import { SCENARIOS, simulateFoundLines, simulateNoiseLines } from './simulate.js
 // The thresholds asserted here are the measured figures minus a margin; they guard against
 // regressions of the identification, not against physics.
 
-const shipped = existsSync(repoPath('data', 'linelists', 'Fe_I.csv'));
-const maybeShared = shipped ? describe : describeWithShared;
-
 const RESOLVING_POWERS = [500, 2000, 10_000] as const;
 const SNRS = [20, 50, 200] as const;
 const REALISATIONS = 4;
 
-maybeShared('identification of synthetic found-line lists', () => {
+describe('identification of synthetic found-line lists', () => {
   const all = allLists();
   const reference = listsOf([...all.keys()].filter((s) => !s.includes('telluric')));
   const bands = telluricBandsFromLines(listsOf(['O2 telluric', 'H2O telluric']));
