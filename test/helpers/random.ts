@@ -3,8 +3,8 @@
  * generator; common practice for test data) and Box–Muller normal deviates.
  */
 
-/** Uniform deviates in [0, 1) from a 32-bit seed. */
-export function uniform(seed: number): () => number {
+/** Uniform deviates in [0, 1) from a 32-bit seed (mulberry32). */
+export function mulberry32(seed: number): () => number {
   let a = seed >>> 0;
   return () => {
     a = (a + 0x6d2b79f5) >>> 0;
@@ -13,6 +13,16 @@ export function uniform(seed: number): () => number {
     t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
     return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
   };
+}
+
+/** Uniform deviates in [0, 1) from a 32-bit seed (the same generator as {@link mulberry32}). */
+export const uniform = mulberry32;
+
+/** A standard normal deviate from a uniform generator (Box–Muller). */
+export function gaussian(rand: () => number): number {
+  let u = 0;
+  while (u === 0) u = rand();
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rand());
 }
 
 /** Standard normal deviates from a 32-bit seed. */

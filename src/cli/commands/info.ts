@@ -26,6 +26,14 @@ export interface SpectrumInfo {
   /** DATE-OBS card, or null. */
   dateObs: string | null;
   hasUncertainty: boolean;
+  /** Flux unit (BUNIT or the flux column's unit), or null. */
+  fluxUnit: string | null;
+  /**
+   * For an uncalibrated axis: `0-based index` when the axis is the pixel index 0…N−1 (what
+   * the readers give a file without a wavelength scale), `from file` otherwise; null when
+   * calibrated.
+   */
+  pixelConvention: '0-based index' | 'from file' | null;
 }
 
 /** Summarises a spectrum for `lineshift info`. */
@@ -51,12 +59,14 @@ export function spectrumInfo(s: Spectrum, file: string): SpectrumInfo {
     object: s.header.string('OBJECT') ?? null,
     dateObs: s.header.string('DATE-OBS') ?? null,
     hasUncertainty: s.uncertainty !== undefined,
+    fluxUnit: s.fluxUnit,
+    pixelConvention: s.unit !== 'pixel' ? null : s.wavelength[0] === 0 && s.wavelength[s.wavelength.length - 1] === s.wavelength.length - 1 ? '0-based index' : 'from file',
   };
 }
 
 function describe(i: SpectrumInfo): string {
   const axis = i.unit === 'pixel'
-    ? `pixels ${i.wavelengthFirst} to ${i.wavelengthLast} (not wavelength-calibrated)`
+    ? `pixels ${i.wavelengthFirst} to ${i.wavelengthLast} (${i.pixelConvention === '0-based index' ? '0-based pixel index' : 'pixel coordinates from the file'}; not wavelength-calibrated)`
     : `${i.wavelengthFirst.toFixed(3)} to ${i.wavelengthLast.toFixed(3)} Å${i.medium ? ` (${i.medium})` : ' (medium not stated)'}`;
   return [
     `${i.file}${i.format === 'fits' ? ` [HDU ${i.hdu}]` : ''}`,
@@ -64,7 +74,7 @@ function describe(i: SpectrumInfo): string {
     `  date-obs:    ${i.dateObs ?? '(none)'}`,
     `  pixels:      ${i.pixels}${i.nanCount ? ` (${i.nanCount} NaN)` : ''}`,
     `  axis:        ${axis}`,
-    `  flux sum:    ${i.fluxSum.toPrecision(8)}`,
+    `  flux sum:    ${i.fluxSum.toPrecision(8)}${i.fluxUnit ? ` ${i.fluxUnit}` : ''}`,
     `  uncertainty: ${i.hasUncertainty ? 'yes' : 'no'}`,
   ].join('\n') + '\n';
 }
