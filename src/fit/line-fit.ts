@@ -5,6 +5,7 @@
  * with uncertainties propagated through the full covariance.
  */
 import { UsageError } from '../errors.js';
+import type { LineWindow } from '../lines/find.js';
 import { derSnr } from '../lines/snr.js';
 import { provenanceEntry, type ProvenanceEntry } from '../spectrum/provenance.js';
 import { isUsablePixel, type Spectrum } from '../spectrum/spectrum.js';
@@ -552,3 +553,53 @@ function fitPrepared(d: Prepared, o: ArrayLineFitOptions, provenanceOptions: Rec
     ]),
   };
 }
+
+/**
+ * Fits one window found by `findLines`: its lines as components, started from the
+ * finder's centres, FWHMs and amplitudes, over a window covering the finder's range.
+ *
+ * Method: {@link fitLine} with `centerAngstrom` = the window's centres, a symmetric window
+ * width covering [start, end], and starting values from the detections (a Voigt starts
+ * with equal Gaussian and Lorentzian FWHMs). Works on pixel-axis spectra too (lengths in
+ * pixels), through {@link fitLineArrays}.
+ *
+ * @param spectrum the spectrum the window was found in.
+ * @param window a window from `findLines(spectrum)` (lengths in its result's unit).
+ * @param settings profile, continuum order, bounds, fixed and tied parameters (as for fitLine).
+ * @returns the fit, as {@link fitLine}.
+ * @throws {UsageError} when the window does not lie in the spectrum, or for malformed settings.
+ * @example
+ * const found = findLines(spectrum);
+ * const fits = found.windows.map((w) => fitWindow(spectrum, w));
+ */
+export function fitWindow(spectrum: Spectrum, window: LineWindow, settings: LineFitSettings = {}): LineFitResult {
+  const profile = settings.profile ?? 'gaussian';
+  const cmin = Math.min(...window.centers), cmax = Math.max(...window.centers);
+  const width = 2 * Math.max(cmin - window.start, window.end - cmax, 0);
+  const initial: Record<string, number> = {};
+  window.lines.forEach((l, k) => {
+    const j = k + 1;
+    if (profile === 'voigt') {
+      initial[`fwhmGaussian${j}`] = l.fwhm / VOIGT_EQUAL_WIDTH_FACTOR;
+      initial[`fwhmLorentzian${j}`] = l.fwhm / VOIGT_EQUAL_WIDTH_FACTOR;
+    } else initial[`fwhm${j}`] = l.fwhm;
+    initial[`amplitude${j}`] = l.amplitude;
+  });
+  const merged: LineFitSettings = {
+    ...settings,
+    components: window.lines.length,
+    sign: settings.sign ?? (window.sign === 'mixed' ? 'auto' : window.sign),
+    initial: { ...initial, ...settings.initial },
+  };
+  const centers = window.lines.map((l) => l.center);
+  if (spectrum.unit === 'pixel') {
+    return fitLineArrays(
+      { x: spectrum.wavelength, unit: 'pixel', flux: spectrum.flux, uncertainty: spectrum.uncertainty, mask: spectrum.mask },
+      { ...merged, center: centers, window: width },
+    );
+  }
+  return fitLine(spectrum, { ...merged, centerAngstrom: centers, windowAngstrom: width });
+}
+
+/** Total FWHM of a Voigt with equal Gaussian and Lorentzian FWHM a is a·(0.5346 + √1.2166) (Olivero & Longbothum 1977). */
+const VOIGT_EQUAL_WIDTH_FACTOR = 0.5346 + Math.sqrt(0.2166 + 1);

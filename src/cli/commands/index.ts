@@ -1,5 +1,7 @@
 import type { Command } from '../command.js';
 import { barycentricCommand } from './barycentric.js';
+import { findCommand } from './find.js';
+import { fitCommand } from './fit.js';
 import { infoCommand } from './info.js';
 import { orbitCommand } from './orbit.js';
 import { periodogramCommand } from './periodogram.js';
@@ -8,6 +10,8 @@ import { periodogramCommand } from './periodogram.js';
 export const commands: readonly Command[] = [
   infoCommand,
   barycentricCommand,
+  findCommand,
+  fitCommand,
   periodogramCommand,
   orbitCommand,
 ];
