@@ -279,14 +279,16 @@ function median(values: number[]): number {
  *    (relativistic) by `velocityKmPerS`, and merged per species into features where closer than
  *    λ/R. Multiplet-centroid summary rows are dropped (their components are listed).
  * 2. A found line matches a feature when |Δλ| ≤ τ ({@link matchToleranceAngstrom}). Forbidden
- *    lines match only emission lines.
+ *    lines match only emission lines. A found line whose centre uncertainty exceeds one
+ *    resolution element λ/R is not used (`centreTooUncertain`).
  * 3. Expected lines of a species: visible features (inside the coverage, one resolution element
  *    from its edges, outside strong telluric bands) with list intensity ≥ 10% of the species' strongest
  *    visible feature (at most 20, strongest first); when fewer than half the visible features have
  *    an intensity, every visible feature counts, equally.
  * 4. Evidence: Λ = Σ ln(q_j/p_j) over matched plus Σ ln((1−q_j)/(1−p_j)) over missing expected
- *    lines, where p_j = 1 − exp(−2τ_j ρ_j) is the chance that an unrelated found line falls within
- *    the tolerance (ρ_j the local density of found lines of an allowed kind within ±200 Å) and
+ *    lines, where p_j = 1 − exp(−μ_j) is the chance that an unrelated found line falls within its
+ *    tolerance (μ_j = Σ 2τ_i / covered length over the found lines of an allowed kind within
+ *    ±200 Å, each with its own τ_i) and
  *    q_j the chance to find the line if the species is present (0.95 for the strongest, falling
  *    with √(intensity) to 0.6 at the 10% limit; 0.6 when unranked). A missing strong line costs
  *    up to ln(0.05) ≈ −3. The false-alarm probability is P(Λ ≥ Λ_obs) when each expected line is
@@ -395,11 +397,13 @@ export function identifyLines(
   const covMax = coverage.length ? coverage[coverage.length - 1].endAngstrom : 0;
 
   // ---- sorted found lines by kind
+  // a line whose centre is known worse than one resolution element says nothing about identity
+  const tooUncertain = (o: ObservedLine) => o.wavelengthUncertaintyAngstrom > o.wavelengthAngstrom / resolvingPower;
   const byKind: Record<LineKind, SortedLines> = {
-    absorption: sortLines(observed.flatMap((o, i) => (o.kind === 'absorption' ? [{ w: o.wavelengthAngstrom, s: o.wavelengthUncertaintyAngstrom, i }] : []))),
-    emission: sortLines(observed.flatMap((o, i) => (o.kind === 'emission' ? [{ w: o.wavelengthAngstrom, s: o.wavelengthUncertaintyAngstrom, i }] : []))),
+    absorption: sortLines(observed.flatMap((o, i) => (o.kind === 'absorption' && !tooUncertain(o) ? [{ w: o.wavelengthAngstrom, s: o.wavelengthUncertaintyAngstrom, i }] : []))),
+    emission: sortLines(observed.flatMap((o, i) => (o.kind === 'emission' && !tooUncertain(o) ? [{ w: o.wavelengthAngstrom, s: o.wavelengthUncertaintyAngstrom, i }] : []))),
   };
-  const allSigmas = observed.map((o) => o.wavelengthUncertaintyAngstrom);
+  const allSigmas = observed.filter((o) => !tooUncertain(o)).map((o) => o.wavelengthUncertaintyAngstrom);
   const typicalSigma = allSigmas.length ? median(allSigmas) : 0;
 
   const tol = (lambda: number, centreSigma: number, spread: number) =>
@@ -452,17 +456,25 @@ export function identifyLines(
     return best ? { index: best.index, w: best.w } : null;
   };
 
-  const localDensity = (f: Feature): number => {
+  /**
+   * Expected number of unrelated found lines (of an allowed kind) within their own tolerance of
+   * feature f, if they were spread uniformly over the covered part of the window λ_f ± W:
+   * μ = (Σ_i 2τ_i + 2τ_typ/2) / covered length, τ_i with line i's own centre uncertainty (the
+   * half-line term keeps μ > 0 where no line is near). The chance of a coincidence is 1 − e^(−μ).
+   */
+  const chanceOfCoincidence = (f: Feature): number => {
     const W = IDENTIFY_DEFAULTS.densityWindowAngstrom;
     const a = f.expectedAngstrom - W;
     const b = f.expectedAngstrom + W;
-    let count = 0;
+    let width = tol(f.expectedAngstrom, typicalSigma, f.spreadAngstrom).toleranceAngstrom; // the half line
     for (const kind of kindsOf(f)) {
       const sl = byKind[kind];
-      count += lowerBound(sl.w, b) - lowerBound(sl.w, a);
+      for (let j = lowerBound(sl.w, a); j < sl.w.length && sl.w[j] < b; j++) {
+        width += 2 * tol(f.expectedAngstrom, sl.s[j], f.spreadAngstrom).toleranceAngstrom;
+      }
     }
     const len = Math.max(coveredLength(coverage, a, b), 1e-9);
-    return (count + 0.5) / len;
+    return 1 - Math.exp(-width / len);
   };
 
   const work: SpeciesWork[] = [];
@@ -497,8 +509,7 @@ export function identifyLines(
     const gain: number[] = [];
     let missSum = 0;
     expected.forEach((f, j) => {
-      const t = tol(f.expectedAngstrom, typicalSigma, f.spreadAngstrom).toleranceAngstrom;
-      const pj = Math.min(0.99, Math.max(1e-9, 1 - Math.exp(-2 * t * localDensity(f))));
+      const pj = Math.min(0.99, Math.max(1e-9, chanceOfCoincidence(f)));
       const qj = Math.max(q[j], Math.min(0.995, pj + 0.01));
       q[j] = qj;
       p.push(pj);
@@ -651,6 +662,9 @@ export function identifyLines(
 
   const lines: LineIdentification[] = observed.map((o, index) => {
     const own = tol(o.wavelengthAngstrom, o.wavelengthUncertaintyAngstrom, 0);
+    if (tooUncertain(o)) {
+      return Object.freeze({ index, wavelengthAngstrom: o.wavelengthAngstrom, kind: o.kind, toleranceAngstrom: own.toleranceAngstrom, telluric: false, centreTooUncertain: true, candidates: Object.freeze([]) });
+    }
     const wide = tol(o.wavelengthAngstrom * 1.01, o.wavelengthUncertaintyAngstrom, maxSpread).toleranceAngstrom;
     const raw: { c: Omit<LineCandidate, 'score'>; s: number }[] = [];
     for (let j = lowerBound(featW, o.wavelengthAngstrom - wide); j < featW.length && featW[j] <= o.wavelengthAngstrom + wide; j++) {
@@ -708,6 +722,7 @@ export function identifyLines(
       kind: o.kind,
       toleranceAngstrom: own.toleranceAngstrom,
       telluric: band !== null,
+      centreTooUncertain: false,
       candidates: Object.freeze(candidates),
     });
   });

@@ -4,3 +4,4 @@ export * from './identify.js';
 export * from './species.js';
 export * from './statistics.js';
 export * from './telluric.js';
+export * from './spectrum.js';

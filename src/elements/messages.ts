@@ -58,3 +58,18 @@ export function resolutionEstimatedMessage(r: number, n: number): string {
 export function shiftTestSkippedMessage(lengthAngstrom: number): string {
   return `shift test skipped: the covered ${lengthAngstrom.toFixed(1)} Å is too short for offsets larger than the tolerance`;
 }
+
+/** A spectrum without a wavelength scale. */
+export function notCalibratedMessage(): string {
+  return 'spectrum has no wavelength scale (pixel axis); calibrate it before identifying lines';
+}
+
+/** Warning: the spectrum does not say air or vacuum. */
+export function mediumAssumedMessage(): string {
+  return 'spectrum does not say whether its wavelengths are in air or vacuum; assuming air (as the line lists)';
+}
+
+/** Warning: some found lines were not fitted. */
+export function notFittedMessage(n: number, total: number): string {
+  return `${n} of ${total} found lines not fitted (blend too large or fit did not converge); their centres come from the finder`;
+}

@@ -89,6 +89,8 @@ export interface LineIdentification {
   readonly toleranceAngstrom: number;
   /** True when the line is an absorption line inside a telluric band. */
   readonly telluric: boolean;
+  /** True when the centre's uncertainty exceeds one resolution element λ/R: the line is not used and gets no candidates. */
+  readonly centreTooUncertain: boolean;
   /** Ranked candidates, best first (empty when nothing lies within the tolerance). */
   readonly candidates: readonly LineCandidate[];
 }
