@@ -1,5 +1,6 @@
 import type { Command } from '../command.js';
 import { barycentricCommand } from './barycentric.js';
+import { elementsCommand } from './elements.js';
 import { findCommand } from './find.js';
 import { fitCommand } from './fit.js';
 import { infoCommand } from './info.js';
@@ -12,6 +13,7 @@ export const commands: readonly Command[] = [
   barycentricCommand,
   findCommand,
   fitCommand,
+  elementsCommand,
   periodogramCommand,
   orbitCommand,
 ];
