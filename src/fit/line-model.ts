@@ -54,6 +54,8 @@ export function continuumAt(shape: LineModelShape, p: ArrayLike<number>, x: numb
   return v;
 }
 
+const GRAD = new Float64Array(3);
+
 /**
  * Evaluates the model at every x into `out`, and (when `jacobian` is given, row-major
  * m × n) its derivatives with respect to every parameter.
@@ -64,7 +66,7 @@ export function evaluateLineModel(
   const n = lineModelParameterCount(shape);
   const nc = shape.continuumOrder + 1;
   const cs = componentSize(shape.profile);
-  const g = new Float64Array(3);
+  const g = GRAD;
   const ref = shape.continuumReference;
   for (let i = 0; i < x.length; i++) {
     const t = x[i] - ref;

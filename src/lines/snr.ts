@@ -20,7 +20,7 @@ const DER_SNR_FACTOR = 1.482602 / Math.sqrt(6);
 
 /** Median of a numeric array (sorted copy; the input is not modified). NaN for an empty array. */
 export function median(values: ArrayLike<number>): number {
-  const a = Float64Array.from(values).sort();
+  const a = new Float64Array(values).sort();
   const n = a.length;
   if (n === 0) return NaN;
   return n % 2 ? a[(n - 1) / 2] : (a[n / 2 - 1] + a[n / 2]) / 2;
