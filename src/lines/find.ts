@@ -292,7 +292,7 @@ function peel(
       const arr = scales[s].s;
       for (let i = 0; i < n; i++) {
         const v = arr[i];
-        if (Math.abs(v) > best) { best = Math.abs(v); bs = s; bi = i; }
+        if (Math.abs(v) > best && Number.isFinite(v)) { best = Math.abs(v); bs = s; bi = i; }
       }
     }
     if (bs < 0 || best < threshold) break;
@@ -307,6 +307,7 @@ function peel(
     if (bi > 0 && bi < n - 1) {
       const den = sv[bi - 1] - 2 * sv[bi] + sv[bi + 1];
       if (den !== 0) dp = Math.max(-0.5, Math.min(0.5, (0.5 * (sv[bi - 1] - sv[bi + 1])) / den));
+      if (!Number.isFinite(dp)) dp = 0;
     }
     const p = bi + dp;
     // Width and amplitude: the Gaussian FWHM (a 2^(1/8) grid from half to twice the best
@@ -325,6 +326,9 @@ function peel(
       }
       if (den > 0 && (num * num) / den > bestGain) { bestGain = (num * num) / den; f = ft; amp = num / den; }
     }
+    // Absurd data (values near the float range) can overflow the sums: stop rather than
+    // subtract a non-finite line.
+    if (!Number.isFinite(p) || !Number.isFinite(f) || !Number.isFinite(amp)) break;
     const ext = Math.ceil(MODEL_HALF_FWHM * f);
     const significance = sv[bi];
     const leftover = found.some((e) => e.reported && isLeftover(e, p, f, amp, continuumHalfWindow));
