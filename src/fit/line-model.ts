@@ -30,7 +30,17 @@ export function componentSize(profile: LineProfile): number {
   return PROFILE_WIDTH_NAMES[profile].length + 2;
 }
 
-/** Parameter names in vector order (components numbered from 1). */
+/**
+ * Names of a line model's parameters in vector order: the continuum coefficients, then
+ * per component (numbered from 1) its centre, FWHM(s) and amplitude. These are the names
+ * that `initial`, `bounds`, `fixed` and `ties` of the line fits accept.
+ *
+ * @param shape profile, number of components, continuum order (the reference point is not used).
+ * @returns the names, e.g. `continuumConstant, continuumSlope, center1, fwhm1, amplitude1`.
+ * @example
+ * lineModelParameterNames({ profile: 'voigt', components: 1, continuumOrder: 0, continuumReference: 0 });
+ * // ['continuumConstant', 'center1', 'fwhmGaussian1', 'fwhmLorentzian1', 'amplitude1']
+ */
 export function lineModelParameterNames(shape: LineModelShape): string[] {
   const names: string[] = CONTINUUM_NAMES.slice(0, shape.continuumOrder + 1);
   for (let k = 1; k <= shape.components; k++) {

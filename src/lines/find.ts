@@ -116,7 +116,18 @@ const MODEL_HALF_FWHM = 3;
 interface Scale { fwhm: number; half: number; kernel: Float64Array; s: Float64Array; a: Float64Array }
 interface Found { p: number; fwhm: number; amplitude: number; significance: number; reported: boolean }
 
-/** Running median over a window of `width` samples (truncated at the ends). */
+/**
+ * Running median: at each index, the median of the values within ±⌊width/2⌋ (the window
+ * is truncated at the ends).
+ *
+ * Method: a sorted window updated by binary-search insertion and removal, O(n·width).
+ *
+ * @param values the samples (not modified).
+ * @param width window length in samples (≥ 1; odd lengths centre the window).
+ * @returns a new array of the same length.
+ * @example
+ * runningMedian([1, 9, 2, 8, 3], 3); // Float64Array [5, 2, 8, 3, 5.5]
+ */
 export function runningMedian(values: ArrayLike<number>, width: number): Float64Array {
   const n = values.length;
   const h = Math.max(0, Math.floor(width / 2));
