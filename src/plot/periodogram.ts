@@ -118,7 +118,11 @@ export function periodogramPlot(data: PeriodogramPlotData, options: PeriodogramP
       },
     );
   }
-  const bestRow = { [field]: byPeriod ? 1 / bestFrequency : bestFrequency, power: bestPower, label: periodText };
+  const bestX = byPeriod ? 1 / bestFrequency : bestFrequency;
+  const bestRow = { [field]: bestX, power: bestPower, label: periodText };
+  const [d0, d1] = xScale.domain as [number, number];
+  const fraction = byPeriod ? Math.log(bestX / d0) / Math.log(d1 / d0) : (bestX - d0) / (d1 - d0);
+  const rightSide = fraction > 2 / 3;
   datasets.peak = [bestRow];
   layers.push(
     inSeries({
@@ -128,7 +132,8 @@ export function periodogramPlot(data: PeriodogramPlotData, options: PeriodogramP
     }, peakName, legend),
     {
       data: { name: 'peak' },
-      mark: { type: 'text', align: 'left', baseline: 'middle', dx: 9, dy: -10, fontWeight: 'bold', color: colors.annotation },
+      // Label to the right of the marker, or to its left when the peak is in the right third of the axis.
+      mark: { type: 'text', align: rightSide ? 'right' : 'left', baseline: 'middle', dx: rightSide ? -9 : 9, dy: -10, fontWeight: 'bold', color: colors.annotation },
       encoding: { x: channel(xAxis), y: channel(yAxis), text: { field: 'label', type: 'nominal' } },
     },
   );

@@ -58,6 +58,23 @@ describe('every plot builder', () => {
   });
 });
 
+describe('no builder modifies its input', () => {
+  const cases: [string, () => unknown, (input: never) => unknown][] = [
+    ['spectrumPlot', spectrumInput, (i) => spectrumPlot(i)],
+    ['lineFitPlot', lineFitInput, (i) => lineFitPlot(i)],
+    ['calibrationResidualPlot', calibrationInput, (i) => calibrationResidualPlot(i, { residualUnit: 'kmPerS' })],
+    ['crossCorrelationPlot', crossCorrelationInput, (i) => crossCorrelationPlot(i)],
+    ['velocityCurvePlot', orbitInput, (i) => velocityCurvePlot(i)],
+    ['phaseFoldedVelocityPlot', orbitInput, (i) => phaseFoldedVelocityPlot(i)],
+    ['periodogramPlot', periodogramInput, (i) => periodogramPlot(i)],
+  ];
+  it.each(cases)('%s', (_name, make, build) => {
+    const input = deepFreeze(make());
+    build(input as never); // frozen: any write would throw in strict mode
+    expect(JSON.stringify(input)).toBe(JSON.stringify(make()));
+  });
+});
+
 describe('axis titles carry units', () => {
   it.each([
     ['spectrum', spectrumPlot(spectrumInput()), ['Wavelength (Å, air)', 'Flux (ADU)']],
@@ -301,6 +318,11 @@ describe('periodogramPlot', () => {
   it('marks the chosen frequency when given', () => {
     const spec = periodogramPlot({ ...periodogramInput(), bestFrequencyPerDay: 0.6 }, { xAxis: 'frequency' });
     expect(datasets(spec).peak).toEqual([{ frequency: 0.6, power: 0.3, label: 'P = 1.6667 days' }]);
+    // At the right end of the axis the label goes to the left of the marker, inside the plot.
+    const label = (spec.layer as { mark: { type: string; fontWeight?: string; align?: string } }[]).find((l) => l.mark.type === 'text' && l.mark.fontWeight === 'bold');
+    expect(label?.mark.align).toBe('right');
+    const left = (periodogramPlot(periodogramInput()).layer as { mark: { type: string; fontWeight?: string; align?: string } }[]).find((l) => l.mark.type === 'text' && l.mark.fontWeight === 'bold');
+    expect(left?.mark.align).toBe('left');
   });
 
   it('rejects a false-alarm probability outside (0, 1)', () => {
