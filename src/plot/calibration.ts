@@ -106,6 +106,7 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
     throw new InputError('plot.empty', 'calibration residual plot: no line has a finite wavelength and residual, nothing to plot', { keyword: 'lines' });
   }
   const usedRows = rows.filter((r) => r.used);
+  const rejectedRows = rows.filter((r) => !r.used);
   const usedCount = usedRows.length;
   const rmsA = isFiniteNumber(data.rmsAngstrom) ? data.rmsAngstrom : rms(usedRows.map((r) => (velocity ? ((r.y as number) * (r.x as number)) / SPEED_OF_LIGHT_KM_PER_S : (r.y as number))));
   const meanWavelength = usedCount ? usedRows.reduce((s, r) => s + (r.x as number), 0) / usedCount : NaN;
@@ -139,8 +140,8 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
     }, '±RMS', legend));
   }
   residualLayers.push(
-    ...pointsWithErrorBars('lines', xAxis, yAxis, 'Used', legend, { filter: 'datum.used', tooltip }),
-    ...pointsWithErrorBars('lines', xAxis, yAxis, 'Rejected', legend, { filter: '!datum.used', shape: 'cross', tooltip }),
+    ...pointsWithErrorBars('lines', xAxis, yAxis, 'Used', legend, { rows: usedRows, filter: 'datum.used', tooltip }),
+    ...pointsWithErrorBars('lines', xAxis, yAxis, 'Rejected', legend, { rows: rejectedRows, filter: '!datum.used', shape: 'cross', tooltip }),
   );
 
   const subtitle = options.subtitle ??
@@ -155,7 +156,8 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
   const [p0, p1] = data.dispersion.pixelRange;
   const curve = sampleFunction(data.dispersion.wavelengthAtPixel, p0, p1, 400);
   datasets.solution = curve.x.map((x, i) => ({ x, y: curve.y[i] }));
-  datasets.linePixels = rows.filter((r) => r.pixel !== null).map((r) => ({ x: r.pixel, y: r.x, used: r.used, label: r.label, status: r.status, low: null, high: null }));
+  const linePixels = rows.filter((r) => r.pixel !== null).map((r) => ({ x: r.pixel, y: r.x, used: r.used, label: r.label, status: r.status, low: null, high: null }));
+  datasets.linePixels = linePixels;
   const pixelAxis: AxisChannel = { field: 'x', title: 'Pixel', scale: { domain: [Math.min(p0, p1), Math.max(p0, p1)], nice: false, zero: false } };
   const waveAxis: AxisChannel = { field: 'y', title: wavelengthTitle(data.medium), scale: { zero: false } };
   const residualHeight = checkSize('residualHeight', options.residualHeight, Math.round(PLOT_THEME.residualHeight * 1.6));
@@ -170,8 +172,8 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
         title: { text: 'Dispersion solution', fontSize: PLOT_THEME.axisTitleFontSize, fontWeight: 'normal' },
         layer: [
           curveLayer('solution', pixelAxis, waveAxis, 'Solution', legend, { strokeWidth: 1.5 }),
-          ...pointsWithErrorBars('linePixels', pixelAxis, waveAxis, 'Used', legend, { filter: 'datum.used' }).slice(1),
-          ...pointsWithErrorBars('linePixels', pixelAxis, waveAxis, 'Rejected', legend, { filter: '!datum.used', shape: 'cross' }).slice(1),
+          ...pointsWithErrorBars('linePixels', pixelAxis, waveAxis, 'Used', legend, { rows: linePixels.filter((r) => r.used), filter: 'datum.used' }),
+          ...pointsWithErrorBars('linePixels', pixelAxis, waveAxis, 'Rejected', legend, { rows: linePixels.filter((r) => !r.used), filter: '!datum.used', shape: 'cross' }),
         ],
       },
       {

@@ -47,8 +47,11 @@ export function pointRows(
 }
 
 /**
- * Two layers for points with error bars from a dataset of {@link pointRows}: vertical
- * rules from `low` to `high`, then filled points, both in the colour of series `name`.
+ * Layers for points with error bars from a dataset of {@link pointRows}: vertical rules
+ * from `low` to `high`, then filled points, both in the colour of series `name`. `rows`
+ * are the rows the layers will show (after `filter`): without rows there is no layer, and
+ * without any error there is no rule layer, because vega warns about the infinite extent
+ * of an empty layer.
  */
 export function pointsWithErrorBars(
   dataset: string,
@@ -56,11 +59,13 @@ export function pointsWithErrorBars(
   yAxis: AxisChannel,
   name: string,
   legend: readonly LegendEntry[],
-  options: { shape?: string; opacity?: number; tooltip?: readonly Record<string, unknown>[]; filter?: string } = {},
+  options: { rows: readonly PlotDatum[]; shape?: string; opacity?: number; tooltip?: readonly Record<string, unknown>[]; filter?: string },
 ): Record<string, unknown>[] {
+  if (options.rows.length === 0) return [];
   const transform = options.filter ? [{ filter: options.filter }] : [];
   const errorFilter = [...transform, { filter: 'isValid(datum.low) && isValid(datum.high)' }];
-  return [
+  const hasErrors = options.rows.some((r) => r.low !== null && r.low !== undefined && r.high !== null && r.high !== undefined);
+  const layers = [
     inSeries({
       data: { name: dataset },
       transform: errorFilter,
@@ -78,6 +83,7 @@ export function pointsWithErrorBars(
       },
     }, name, legend),
   ];
+  return hasErrors ? layers : layers.slice(1);
 }
 
 /** A line layer drawing `y` against `x` from `dataset`, in the colour and dash of series `name`. */

@@ -2,7 +2,7 @@
  * Plot of a line-profile fit: data with error bars, the model, each component, the
  * continuum, and the residuals in a panel beneath with the same wavelength axis.
  */
-import { InputError } from '../errors.js';
+import { InputError, UsageError } from '../errors.js';
 import type { Medium } from '../spectrum/spectrum.js';
 import { checkColumns, checkSize, finiteRange, fluxTitle, formatFixed, formatWithError, isFiniteNumber, sampleFunction, topLevel, wavelengthTitle, type PlotOptions } from './common.js';
 import { channel, curveLayer, horizontalRule, pointRows, pointsWithErrorBars, rms, type AxisChannel } from './layers.js';
@@ -58,7 +58,8 @@ export interface LineFitPlotData {
 export interface LineFitPlotOptions extends PlotOptions {
   /**
    * Residual panel in flux units (`flux`: data − model) or in units of each point's σ
-   * (`sigma`: (data − model)/σ). Default: `sigma` when uncertainties are given, else `flux`.
+   * (`sigma`: (data − model)/σ, points without a valid σ left out). Default: `sigma` when
+   * some point has a finite positive uncertainty, else `flux`.
    */
   residuals?: 'flux' | 'sigma';
   /** Points at which the model curves are sampled across the data range (default 600, at most 20 000). */
@@ -81,7 +82,8 @@ const DEFAULT_SAMPLES = 600;
  *   RMS), sizes, residual units, sampling.
  * @returns a Vega-Lite spec (vconcat of fit panel and residual panel).
  * @throws {InputError} `plot.length-mismatch`, `plot.empty`, `plot.no-finite-data`.
- * @throws {UsageError} `plot.bad-size` for sizes outside 20–10 000 px.
+ * @throws {UsageError} `plot.bad-size` for sizes outside 20–10 000 px; `plot.no-uncertainty` for
+ *   σ residuals without any uncertainty.
  * @example
  * const spec = lineFitPlot({ wavelengthAngstrom: [6560, 6562, 6564], flux: [1, 0.5, 1],
  *   model: (w) => 1 - 0.5 * Math.exp(-0.5 * ((w - 6562) / 0.8) ** 2) });
@@ -94,11 +96,14 @@ export function lineFitPlot(data: LineFitPlotData, options: LineFitPlotOptions =
   const residualHeight = checkSize('residualHeight', options.residualHeight, PLOT_THEME.residualHeight);
   const samples = Math.min(20_000, Math.max(2, Math.round(options.samples ?? DEFAULT_SAMPLES)));
   const colors = PLOT_THEME.colors;
-  const residualMode = options.residuals ?? (data.uncertainty ? 'sigma' : 'flux');
-
   const points = pointRows(data.wavelengthAngstrom, data.flux, data.uncertainty);
   if (points.length === 0) {
     throw new InputError('plot.no-finite-data', 'line fit plot: no data point has a finite wavelength and flux, nothing to plot', { keyword: 'flux' });
+  }
+  const hasSigma = points.some((p) => p.low !== null);
+  const residualMode = options.residuals ?? (hasSigma ? 'sigma' : 'flux');
+  if (residualMode === 'sigma' && !hasSigma) {
+    throw new UsageError('plot.no-uncertainty', 'residuals in units of σ need a finite positive uncertainty for at least one data point', { keyword: 'residuals' });
   }
   const residualRows: PlotDatum[] = [];
   for (const p of points) {
@@ -163,15 +168,14 @@ export function lineFitPlot(data: LineFitPlotData, options: LineFitPlotOptions =
       encoding: { x: channel(xTop) },
     });
   }
-  topLayers.push(...pointsWithErrorBars('points', xTop, yTop, 'Data', legend));
+  topLayers.push(...pointsWithErrorBars('points', xTop, yTop, 'Data', legend, { rows: points }));
   if (continuum) topLayers.push(curveLayer('curves', xTop, yTop, 'Continuum', legend, { strokeDash: DASH.dashed, strokeWidth: 1.5, filter: filterSeries('Continuum') }));
   for (const name of componentNames) {
     topLayers.push(curveLayer('curves', xTop, yTop, name, legend, { strokeDash: DASH.dotted, strokeWidth: 2, filter: filterSeries(name) }));
   }
   topLayers.push(curveLayer('curves', xTop, yTop, 'Model', legend, { strokeWidth: 2, filter: filterSeries('Model') }));
 
-  // Always drawn, even when empty (σ mode without uncertainties), so the panel keeps its axes.
-  const residualLayers: Record<string, unknown>[] = [horizontalRule(0), ...pointsWithErrorBars('residuals', xBottom, yResidual, 'Data', legend)];
+  const residualLayers: Record<string, unknown>[] = [horizontalRule(0), ...pointsWithErrorBars('residuals', xBottom, yResidual, 'Data', legend, { rows: residualRows })];
 
   const residualRms = rms(residualRows.map((r) => r.y as number));
   const residualUnit = residualMode === 'sigma' ? 'σ' : unit;

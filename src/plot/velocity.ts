@@ -236,9 +236,9 @@ function velocityPanels(rows: PlotDatum[], curveRows: PlotDatum[], s: PanelSetti
       encoding: { y: { field: 'y', type: 'quantitative' } },
     }, 'Systemic velocity γ', legend));
   }
-  if (hasRepeats) layers.push(...pointsWithErrorBars('velocities', xTop, yAxis, 'Repeated', legend, { filter: 'datum.repeat', tooltip }));
+  layers.push(...pointsWithErrorBars('velocities', xTop, yAxis, 'Repeated', legend, { rows: rows.filter((r) => r.repeat), filter: 'datum.repeat', tooltip }));
   if (hasOrbit) layers.push(curveLayer('orbit', xTop, yAxis, 'Orbit', legend, { strokeWidth: 1.8 }));
-  layers.push(...pointsWithErrorBars('velocities', xTop, yAxis, 'Measured', legend, { filter: '!datum.repeat', tooltip }));
+  layers.push(...pointsWithErrorBars('velocities', xTop, yAxis, 'Measured', legend, { rows: rows.filter((r) => !r.repeat), filter: '!datum.repeat', tooltip }));
 
   const residuals = rows.filter((r) => !r.repeat && r.residual !== null).map((r) => r.residual as number);
   const rmsText = hasOrbit ? `; residual RMS ${formatFixed(rms(residuals), 2)} km/s` : '';
@@ -247,12 +247,14 @@ function velocityPanels(rows: PlotDatum[], curveRows: PlotDatum[], s: PanelSetti
   const base = topLevel(s.title, s.subtitle ?? s.defaultSubtitle(rmsText), datasets, s.description);
   if (!hasOrbit) return { ...base, width, height, layer: layers };
 
-  const residualRows = rows.filter((r) => r.residual !== null).map((r) => ({ ...r, y: r.residual, low: r.residualLow, high: r.residualHigh }));
+  const residualRows: PlotDatum[] = rows.filter((r) => r.residual !== null).map((r) => ({ ...r, y: r.residual, low: r.residualLow, high: r.residualHigh }));
   datasets.residuals = residualRows;
   const yResidual: AxisChannel = { field: 'y', title: 'O − C (km/s)' };
   const residualLayers: Record<string, unknown>[] = [horizontalRule(0)];
-  if (hasRepeats) residualLayers.push(...pointsWithErrorBars('residuals', xBottom, yResidual, 'Repeated', legend, { filter: 'datum.repeat' }));
-  residualLayers.push(...pointsWithErrorBars('residuals', xBottom, yResidual, 'Measured', legend, { filter: '!datum.repeat' }));
+  residualLayers.push(
+    ...pointsWithErrorBars('residuals', xBottom, yResidual, 'Repeated', legend, { rows: residualRows.filter((r) => r.repeat), filter: 'datum.repeat' }),
+    ...pointsWithErrorBars('residuals', xBottom, yResidual, 'Measured', legend, { rows: residualRows.filter((r) => !r.repeat), filter: '!datum.repeat' }),
+  );
   return {
     ...base,
     spacing: 6,

@@ -10,7 +10,7 @@ import { spectrumPlot, spectrumPlotData } from '../../src/plot/spectrum.js';
 import { phaseFoldedVelocityPlot, velocityCurvePlot } from '../../src/plot/velocity.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
 import { deepFreeze, expectValidSpec } from './contract.js';
-import { calibrationInput, crossCorrelationInput, lineFitInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
+import { builderCases, calibrationInput, crossCorrelationInput, lineFitInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
 
 type Rows = Record<string, unknown>[];
 const datasets = (spec: VegaLiteSpec) => spec.datasets as Record<string, Rows>;
@@ -28,21 +28,7 @@ function forSnapshot(spec: VegaLiteSpec): unknown {
   return { ...spec, datasets: cut, config: '(vegaLiteConfig())' };
 }
 
-const builders: [string, () => VegaLiteSpec][] = [
-  ['spectrum', () => spectrumPlot(spectrumInput())],
-  ['spectrum without lines', () => spectrumPlot({ ...spectrumInput(), lines: undefined, continuum: undefined, uncertainty: undefined })],
-  ['line fit', () => lineFitPlot(lineFitInput())],
-  ['line fit, flux residuals', () => lineFitPlot(lineFitInput(), { residuals: 'flux' })],
-  ['calibration residuals', () => calibrationResidualPlot({ ...calibrationInput(), dispersion: undefined })],
-  ['calibration residuals in km/s with dispersion solution', () => calibrationResidualPlot(calibrationInput(), { residualUnit: 'kmPerS' })],
-  ['cross-correlation', () => crossCorrelationPlot(crossCorrelationInput())],
-  ['cross-correlation without fitted peak', () => crossCorrelationPlot({ ...crossCorrelationInput(), peak: undefined })],
-  ['velocity curve', () => velocityCurvePlot(orbitInput())],
-  ['velocity curve without orbit', () => velocityCurvePlot({ ...orbitInput(), orbitVelocityKmPerS: undefined, systemicVelocityKmPerS: undefined })],
-  ['periodogram by period', () => periodogramPlot(periodogramInput())],
-  ['periodogram by frequency', () => periodogramPlot(periodogramInput(), { xAxis: 'frequency' })],
-  ['phase-folded velocities', () => phaseFoldedVelocityPlot(orbitInput())],
-];
+const builders = builderCases();
 
 describe('every plot builder', () => {
   it.each(builders)('%s: validates against the Vega-Lite schema, compiles without warnings, matches its snapshot', async (_name, build) => {
@@ -203,6 +189,12 @@ describe('lineFitPlot', () => {
     expect(first[49].x).toBe(5002);
     const at = first[20].x as number;
     expect(first[20].y).toBeCloseTo(input.continuum!(at) + input.components![0].flux(at), 12);
+  });
+
+  it('refuses residuals in σ without any uncertainty', () => {
+    expect(() => lineFitPlot({ ...lineFitInput(), uncertainty: undefined }, { residuals: 'sigma' }))
+      .toThrow('residuals in units of σ need a finite positive uncertainty for at least one data point');
+    expect(datasets(lineFitPlot({ ...lineFitInput(), uncertainty: [0, 0, 0, 0, 0, 0, 0, 0, 0] })).residuals[0].low).toBeNull();
   });
 
   it('shares the wavelength axis between the fit and the residual panel', () => {

@@ -2,12 +2,13 @@
  * Small fixed inputs for the plot builders' tests (invented numbers, chosen by hand so
  * that snapshots stay short and every feature of each plot is present).
  */
-import type { CalibrationResidualPlotData } from '../../src/plot/calibration.js';
-import type { CrossCorrelationPlotData } from '../../src/plot/crossCorrelation.js';
-import type { LineFitPlotData } from '../../src/plot/lineFit.js';
-import type { PeriodogramPlotData } from '../../src/plot/periodogram.js';
-import type { SpectrumPlotData } from '../../src/plot/spectrum.js';
-import type { PhaseFoldedPlotData } from '../../src/plot/velocity.js';
+import { calibrationResidualPlot, type CalibrationResidualPlotData } from '../../src/plot/calibration.js';
+import { crossCorrelationPlot, type CrossCorrelationPlotData } from '../../src/plot/crossCorrelation.js';
+import { lineFitPlot, type LineFitPlotData } from '../../src/plot/lineFit.js';
+import { periodogramPlot, type PeriodogramPlotData } from '../../src/plot/periodogram.js';
+import type { VegaLiteSpec } from '../../src/plot/spec.js';
+import { spectrumPlot, type SpectrumPlotData } from '../../src/plot/spectrum.js';
+import { phaseFoldedVelocityPlot, velocityCurvePlot, type PhaseFoldedPlotData } from '../../src/plot/velocity.js';
 
 export const gaussian = (x: number, centre: number, sigma: number) => Math.exp(-0.5 * ((x - centre) / sigma) ** 2);
 
@@ -100,4 +101,25 @@ export function periodogramInput(): PeriodogramPlotData {
     power: [0.05, 0.2, 0.1, 0.9, 0.15, 0.3],
     falseAlarmLevels: [{ probability: 0.01, power: 0.5 }, { probability: 0.001, power: 0.62 }],
   };
+}
+
+/** One case per builder and variant: a name and a function building the spec from the fixtures. */
+export function builderCases(): [string, () => VegaLiteSpec][] {
+  return [
+    ['spectrum', () => spectrumPlot(spectrumInput())],
+    ['spectrum without lines', () => spectrumPlot({ ...spectrumInput(), lines: undefined, continuum: undefined, uncertainty: undefined })],
+    ['line fit', () => lineFitPlot(lineFitInput())],
+    ['line fit, flux residuals', () => lineFitPlot(lineFitInput(), { residuals: 'flux' })],
+    ['calibration residuals', () => calibrationResidualPlot({ ...calibrationInput(), dispersion: undefined })],
+    ['calibration residuals in km/s with dispersion solution', () => calibrationResidualPlot(calibrationInput(), { residualUnit: 'kmPerS' })],
+    ['cross-correlation', () => crossCorrelationPlot(crossCorrelationInput())],
+    ['cross-correlation without fitted peak', () => crossCorrelationPlot({ ...crossCorrelationInput(), peak: undefined })],
+    ['velocity curve', () => velocityCurvePlot(orbitInput())],
+    ['velocity curve without orbit or uncertainties', () => velocityCurvePlot({ ...orbitInput(), orbitVelocityKmPerS: undefined, systemicVelocityKmPerS: undefined, uncertaintyKmPerS: undefined })],
+    ['calibration residuals, all lines used, no uncertainties', () => calibrationResidualPlot({ lines: calibrationInput().lines.filter((l) => l.used).map((l) => ({ ...l, uncertaintyAngstrom: undefined })) })],
+    ['line fit without uncertainties', () => lineFitPlot({ ...lineFitInput(), uncertainty: undefined })],
+    ['periodogram by period', () => periodogramPlot(periodogramInput())],
+    ['periodogram by frequency', () => periodogramPlot(periodogramInput(), { xAxis: 'frequency' })],
+    ['phase-folded velocities', () => phaseFoldedVelocityPlot(orbitInput())],
+  ];
 }

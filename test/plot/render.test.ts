@@ -10,7 +10,7 @@ import { periodogramPlot } from '../../src/plot/periodogram.js';
 import { installTextMeasure, textWidthPx } from '../../src/plot/textWidth.js';
 import { repoPath } from '../helpers/paths.js';
 import { schemaErrors } from './contract.js';
-import { periodogramInput, spectrumInput } from './fixtures.js';
+import { builderCases, periodogramInput, spectrumInput } from './fixtures.js';
 
 const ids = (svg: string) => [...svg.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]);
 
@@ -64,6 +64,13 @@ describe('renderSvg', () => {
     expect(logger.warnings[0].message).toBe('vega-lite: x-scale\'s "zero" is dropped as it does not work with log scale.');
     const { warnings } = await compileVegaLite(spec);
     expect(warnings).toHaveLength(1);
+  });
+
+  it.each(builderCases())('renders %s without a vega or vega-lite warning', async (_name, build) => {
+    const logger = collectingLogger();
+    const svg = await renderSvg(build(), { logger });
+    expect(logger.warnings).toEqual([]);
+    expect(svg.startsWith('<svg')).toBe(true);
   });
 
   it('does not modify the spec', async () => {
