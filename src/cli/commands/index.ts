@@ -3,6 +3,8 @@ import { barycentricCommand } from './barycentric.js';
 import { findCommand } from './find.js';
 import { fitCommand } from './fit.js';
 import { infoCommand } from './info.js';
+import { orbitCommand } from './orbit.js';
+import { periodogramCommand } from './periodogram.js';
 
 /** Every subcommand, in the order --help lists them. Add new commands here. */
 export const commands: readonly Command[] = [
@@ -10,4 +12,6 @@ export const commands: readonly Command[] = [
   barycentricCommand,
   findCommand,
   fitCommand,
+  periodogramCommand,
+  orbitCommand,
 ];
