@@ -15,3 +15,4 @@ export * from './elements/index.js';
 export * from './orbit/index.js';
 export * from './plot/index.js';
 export * from './notebook/index.js';
+export * from './report/index.js';

@@ -116,7 +116,18 @@ const MODEL_HALF_FWHM = 3;
 interface Scale { fwhm: number; half: number; kernel: Float64Array; s: Float64Array; a: Float64Array }
 interface Found { p: number; fwhm: number; amplitude: number; significance: number; reported: boolean }
 
-/** Running median over a window of `width` samples (truncated at the ends). */
+/**
+ * Running median: at each index, the median of the values within ±⌊width/2⌋ (the window
+ * is truncated at the ends).
+ *
+ * Method: a sorted window updated by binary-search insertion and removal, O(n·width).
+ *
+ * @param values the samples (not modified).
+ * @param width window length in samples (≥ 1; odd lengths centre the window).
+ * @returns a new array of the same length.
+ * @example
+ * runningMedian([1, 9, 2, 8, 3], 3); // Float64Array [5, 2, 8, 3, 5.5]
+ */
 export function runningMedian(values: ArrayLike<number>, width: number): Float64Array {
   const n = values.length;
   const h = Math.max(0, Math.floor(width / 2));
@@ -292,7 +303,7 @@ function peel(
       const arr = scales[s].s;
       for (let i = 0; i < n; i++) {
         const v = arr[i];
-        if (Math.abs(v) > best) { best = Math.abs(v); bs = s; bi = i; }
+        if (Math.abs(v) > best && Number.isFinite(v)) { best = Math.abs(v); bs = s; bi = i; }
       }
     }
     if (bs < 0 || best < threshold) break;
@@ -307,6 +318,7 @@ function peel(
     if (bi > 0 && bi < n - 1) {
       const den = sv[bi - 1] - 2 * sv[bi] + sv[bi + 1];
       if (den !== 0) dp = Math.max(-0.5, Math.min(0.5, (0.5 * (sv[bi - 1] - sv[bi + 1])) / den));
+      if (!Number.isFinite(dp)) dp = 0;
     }
     const p = bi + dp;
     // Width and amplitude: the Gaussian FWHM (a 2^(1/8) grid from half to twice the best
@@ -325,6 +337,9 @@ function peel(
       }
       if (den > 0 && (num * num) / den > bestGain) { bestGain = (num * num) / den; f = ft; amp = num / den; }
     }
+    // Absurd data (values near the float range) can overflow the sums: stop rather than
+    // subtract a non-finite line.
+    if (!Number.isFinite(p) || !Number.isFinite(f) || !Number.isFinite(amp)) break;
     const ext = Math.ceil(MODEL_HALF_FWHM * f);
     const significance = sv[bi];
     const leftover = found.some((e) => e.reported && isLeftover(e, p, f, amp, continuumHalfWindow));

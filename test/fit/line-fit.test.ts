@@ -208,3 +208,26 @@ describe('fitWindow', () => {
     expect(Math.max(...pulls.map(Math.abs))).toBeLessThan(4);
   });
 });
+
+describe('robustness', () => {
+  it('never throws anything but a UsageError, whatever the flux (property test)', async () => {
+    const fc = (await import('fast-check')).default;
+    const value = fc.oneof(
+      fc.double({ min: -1e6, max: 1e6, noNaN: true }),
+      fc.constantFrom(NaN, Infinity, -Infinity, 0, 1e300, -1e300, 5e-324),
+    );
+    fc.assert(fc.property(
+      fc.array(value, { minLength: 3, maxLength: 40 }), fc.constantFrom('gaussian', 'lorentzian', 'voigt'), fc.integer({ min: 1, max: 3 }),
+      (flux, profile, components) => {
+        const x = flux.map((_, i) => 5000 + i);
+        try {
+          const r = fitLineArrays({ x, flux }, { center: 5000 + flux.length / 2, profile: profile as 'gaussian', components });
+          expect(typeof r.converged).toBe('boolean');
+          if (!r.converged) expect(r.message.length).toBeGreaterThan(0);
+        } catch (e) {
+          expect(e).toBeInstanceOf(UsageError);
+        }
+      },
+    ), { numRuns: 300, seed: 42 });
+  });
+});

@@ -127,6 +127,16 @@ describe('findLines on seeded synthetic spectra', () => {
     expect(r.provenance.at(-1)!.step).toBe('find-lines');
   });
 
+  it('never throws on odd flux values (property test)', async () => {
+    const fc = (await import('fast-check')).default;
+    const value = fc.oneof(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.constantFrom(NaN, Infinity, -Infinity, 0, 1e300));
+    fc.assert(fc.property(fc.array(value, { minLength: 1, maxLength: 300 }), (flux) => {
+      const r = findLines(createSpectrum({ wavelength: flux.map((_, i) => 4000 + i), flux }));
+      expect(Array.isArray(r.windows)).toBe(true);
+      for (const w of r.windows) expect(w.start).toBeLessThanOrEqual(w.end);
+    }), { numRuns: 200, seed: 3 });
+  });
+
   it('prints the figures', () => {
     console.log(figures.join('\n'));
     expect(figures.length).toBeGreaterThan(0);
