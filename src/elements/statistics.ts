@@ -73,7 +73,7 @@ export function normalUpperTail(x: number): number {
  *
  * @param probability tail probability in (0, 1]; 0 gives Infinity, values ≥ 0.5 give x ≤ 0.
  * @returns x in sigma (NaN for a probability outside [0, 1] or NaN).
- * @example Math.round(sigmaFromTailProbability(0.5)); // 0
+ * @example sigmaFromTailProbability(0.00135); // ≈ 3.0 (one-sided 3 sigma)
  */
 export function sigmaFromTailProbability(probability: number): number {
   if (!(probability >= 0 && probability <= 1)) return NaN;
