@@ -169,7 +169,7 @@ describe('FITS reader: data and WCS errors', () => {
   });
 
   it('rejects bad TFORMs, columns wider than a row, and vector columns of different lengths', () => {
-    const bintable = (extra: string[], naxis1 = 12, data = new Uint8Array(12)) => buildFits([
+    const bintable = (extra: string[], naxis1 = 12, data: Uint8Array = new Uint8Array(12)) => buildFits([
       { cards: [card('SIMPLE', 'T'), card('BITPIX', '8'), card('NAXIS', '0')] },
       { cards: [card('XTENSION', "'BINTABLE'"), card('BITPIX', '8'), card('NAXIS', '2'), card('NAXIS1', String(naxis1)), card('NAXIS2', '1'), card('PCOUNT', '0'), card('GCOUNT', '1'), ...extra], data },
     ]);
