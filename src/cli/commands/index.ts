@@ -1,9 +1,13 @@
 import type { Command } from '../command.js';
 import { barycentricCommand } from './barycentric.js';
 import { infoCommand } from './info.js';
+import { orbitCommand } from './orbit.js';
+import { periodogramCommand } from './periodogram.js';
 
 /** Every subcommand, in the order --help lists them. Add new commands here. */
 export const commands: readonly Command[] = [
   infoCommand,
   barycentricCommand,
+  periodogramCommand,
+  orbitCommand,
 ];
