@@ -423,6 +423,7 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   const allBins: Bin[] = [];
   const getBins = (iD: number, dir: number) => binsByD.get((iD + D_OFFSET) * 2 + (dir > 0 ? 1 : 0));
   let votes = 0;
+  const needConfirm = px.length >= 20 ? 2 : 1;
   for (const t of peakTriplets) {
     const span = px[t.c] - px[t.a];
     if (span < 3) continue;
@@ -441,6 +442,18 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
           const hd = hint.slope(px[t.b]);
           if (Math.abs(lamB - hint.at(px[t.b])) > hint.accuracy || Math.abs(D / hd - 1) > hint.dispTol) continue;
         }
+        // Confirmation by the neighbours: of the two peaks beyond each end of the
+        // triplet, enough must fall on list lines where this map predicts them.
+        let confirmed = 0, available = 0;
+        for (const e of [t.a - 2, t.a - 1, t.c + 1, t.c + 2]) {
+          if (e < 0 || e >= px.length || e === t.b) continue;
+          available++;
+          const pred = lamB + D * (px[e] - px[t.b]);
+          const tolA = aD * Math.max(1, 0.01 * Math.abs(px[e] - px[t.b]));
+          const q = lowerBound(rawW, pred - tolA);
+          if (q < rawW.length && rawW[q] <= pred + tolA) confirmed++;
+        }
+        if (confirmed < Math.min(needConfirm, available)) continue;
         const lamMid = lamB + D * (mid - px[t.b]);
         const iD = Math.round(Math.log(aD) / D_BIN);
         const iL = Math.round(lamMid / (aD * binPx));
@@ -493,10 +506,12 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   let bestRef: ReferenceLine[] = [];
   let seedsGrown = 0;
   const refCache = new Map<number, { ref: ReferenceLine[]; map: Int32Array }>();
-  for (const { bin } of ranked.slice(0, MAX_BINS)) {
+  // The best-ranked bins first; while no candidate explains half of the peaks, up to four times as many.
+  for (const [rank, { bin }] of ranked.slice(0, 4 * MAX_BINS).entries()) {
+    if (rank >= MAX_BINS && best && best.count >= 0.5 * px.length) break;
     const seeds = [...bin.seeds].sort((x, y) => y.weight - x.weight).slice(0, SEEDS_PER_BIN);
     for (const seed of seeds) {
-      // Reference lines merged at this candidate's resolution (cached per 3 % step of D).
+      // Reference lines merged at this candidate's resolution (cached per step of D).
       let cached = refCache.get(seed.s);
       if (!cached) {
         const ref = mergeUnresolvedLines(list, fwhmPx * Math.abs(seed.d));
