@@ -508,7 +508,8 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   const refCache = new Map<number, { ref: ReferenceLine[]; map: Int32Array }>();
   // The best-ranked bins first; while no candidate explains half of the peaks, up to four times as many.
   for (const [rank, { bin }] of ranked.slice(0, 4 * MAX_BINS).entries()) {
-    if (rank >= MAX_BINS && best && best.count >= 0.5 * px.length) break;
+    const sofar = best as Candidate | null;
+    if (rank >= MAX_BINS && sofar && sofar.count >= 0.5 * px.length) break;
     const seeds = [...bin.seeds].sort((x, y) => y.weight - x.weight).slice(0, SEEDS_PER_BIN);
     for (const seed of seeds) {
       // Reference lines merged at this candidate's resolution (cached per step of D).
