@@ -36,9 +36,10 @@
 import { UsageError } from '../errors.js';
 import type { LineList } from '../lines/linelist.js';
 import { median } from '../lines/snr.js';
-import type { Domain } from '../math/basis.js';
+import { chebyshevRow, type Domain } from '../math/basis.js';
+import { solveLinearLeastSquares } from '../math/linear-least-squares.js';
 import { gratingDispersion, gratingPixelToWavelength, type GratingSetup } from './grating.js';
-import { derivativePolynomial, evaluatePolynomial, quickFit } from './polynomial.js';
+import { derivativePolynomial, evaluatePolynomial } from './polynomial.js';
 
 /** A measured line: where it is, how precisely, how bright. */
 export interface MeasuredPeak {
@@ -230,11 +231,26 @@ function lowerBound(a: Float64Array, v: number): number {
 }
 
 function growOrder(n: number, max: number): number {
-  const k = n < 6 ? 1 : n < 9 ? 2 : n < 14 ? 3 : n < 20 ? 4 : 5;
+  const k = n < 4 ? 1 : n < 7 ? 2 : n < 12 ? 3 : n < 18 ? 4 : 5;
   return Math.min(k, max);
 }
 
-/** Verification by growth from seed pairs (indices into ctx.px and ctx.ref). */
+/** Unweighted Chebyshev fit with the coefficients' unscaled covariance (AᵀA)⁻¹. */
+function fitWithCovariance(xs: readonly number[], ys: readonly number[], order: number, domain: Domain): { c: Float64Array; cov: Float64Array } {
+  const n = order + 1;
+  const a = new Float64Array(xs.length * n);
+  const row = new Float64Array(n);
+  for (let r = 0; r < xs.length; r++) a.set(chebyshevRow(xs[r], order, domain, row), r * n);
+  const f = solveLinearLeastSquares(a, xs.length, n, ys);
+  return { c: f.coefficients, cov: f.covariance };
+}
+
+/**
+ * Verification by growth from seed pairs (indices into ctx.px and ctx.ref): the matched
+ * lines are refitted, every peak inside their range and the nearest few outside it are
+ * matched again under the fit, with a tolerance that adds the fit's own prediction error
+ * (which grows when extrapolating), until nothing changes.
+ */
 function grow(ctx: Context, seed: readonly (readonly [number, number])[]): Candidate | null {
   const n = ctx.px.length;
   let matched = new Int32Array(n).fill(-1);
@@ -242,38 +258,45 @@ function grow(ctx: Context, seed: readonly (readonly [number, number])[]): Candi
   let coefficients = new Float64Array(0);
   let order = 1;
   let rmsPx = NaN;
-  const pMin = ctx.px[0], pMax = ctx.px[n - 1];
-  let extFactor = 0.35;
-  for (let iter = 0; iter < 40; iter++) {
+  let reach = 2;
+  const row = new Float64Array(8);
+  for (let iter = 0; iter < 60; iter++) {
     const xs: number[] = [], ys: number[] = [];
-    for (let i = 0; i < n; i++) if (matched[i] >= 0) { xs.push(ctx.px[i]); ys.push(ctx.refW[matched[i]]); }
+    const idx: number[] = [];
+    for (let i = 0; i < n; i++) if (matched[i] >= 0) { xs.push(ctx.px[i]); ys.push(ctx.refW[matched[i]]); idx.push(i); }
     if (xs.length < 3) return null;
     order = growOrder(xs.length, ctx.maxGrowOrder);
+    let cov: Float64Array;
     try {
-      coefficients = quickFit(xs, ys, order, ctx.domain);
+      ({ c: coefficients, cov } = fitWithCovariance(xs, ys, order, ctx.domain));
     } catch {
       return null;
     }
-    let ss = 0;
+    let ss = 0, ssA = 0;
     for (let k = 0; k < xs.length; k++) {
       const d = derivativePolynomial(coefficients, ctx.domain, xs[k]);
-      ss += ((ys[k] - evaluatePolynomial(coefficients, ctx.domain, xs[k])) / d) ** 2;
+      const r = ys[k] - evaluatePolynomial(coefficients, ctx.domain, xs[k]);
+      ss += (r / d) ** 2;
+      ssA += r * r;
     }
-    rmsPx = xs.length > order + 1 ? Math.sqrt(ss / (xs.length - order - 1)) : 0;
-    const lo = xs[0], hi = xs[xs.length - 1];
-    const spanPx = Math.max(hi - lo, 1);
-    const ext = Math.max(extFactor * spanPx, 25);
-    const tol = Math.min(Math.max(ctx.minTolPx, 3 * rmsPx), 2 * ctx.minTolPx);
+    const dof = xs.length - order - 1;
+    rmsPx = dof > 0 ? Math.sqrt(ss / dof) : 0;
+    const midDisp = Math.abs(derivativePolynomial(coefficients, ctx.domain, (xs[0] + xs[xs.length - 1]) / 2));
+    const s2 = Math.max(dof > 0 ? ssA / dof : 0, (ctx.minTolPx * midDisp / 4) ** 2);
+    const base = Math.min(Math.max(ctx.minTolPx, 3 * rmsPx), 2 * ctx.minTolPx);
+    const first = idx[0], last = idx[idx.length - 1];
     const next = new Int32Array(n).fill(-1);
     const claimDist = new Float64Array(ctx.ref.length).fill(Infinity);
     const claimBy = new Int32Array(ctx.ref.length).fill(-1);
-    for (let i = 0; i < n; i++) {
+    const nc = order + 1;
+    for (let i = Math.max(0, first - reach); i <= Math.min(n - 1, last + reach); i++) {
       const p = ctx.px[i];
-      if (p < lo - ext || p > hi + ext) continue;
       const disp = derivativePolynomial(coefficients, ctx.domain, p);
       if (!(Math.abs(disp) > 0) || (ctx.sign !== 0 && Math.sign(disp) !== ctx.sign)) continue;
-      const outside = p < lo ? lo - p : p > hi ? p - hi : 0;
-      const tolPx = tol * (1 + (2 * outside) / spanPx);
+      chebyshevRow(p, order, ctx.domain, row);
+      let v = 0;
+      for (let a = 0; a < nc; a++) for (let b = 0; b < nc; b++) v += row[a] * cov[a * nc + b] * row[b];
+      const tolPx = Math.min(base + (3 * Math.sqrt(Math.max(0, v * s2))) / Math.abs(disp), 8 * ctx.minTolPx);
       const pred = evaluatePolynomial(coefficients, ctx.domain, p);
       const tolA = tolPx * Math.abs(disp);
       let k = lowerBound(ctx.refW, pred - tolA);
@@ -294,10 +317,11 @@ function grow(ctx: Context, seed: readonly (readonly [number, number])[]): Candi
     }
     let same = true;
     for (let i = 0; i < n; i++) if (next[i] !== matched[i]) { same = false; break; }
-    const covers = lo - ext <= pMin && hi + ext >= pMax;
     matched = next;
-    if (same && covers) break;
-    if (same) extFactor *= 2;
+    if (same) {
+      if (first - reach <= 0 && last + reach >= n - 1) break;
+      reach *= 2;
+    }
   }
   let count = 0;
   for (let i = 0; i < n; i++) if (matched[i] >= 0) count++;

@@ -25,8 +25,8 @@ export const calibrationMessages = {
     `only ${found} line${found === 1 ? '' : 's'} found; at least 4 are needed to recognise a pattern`,
   noPattern: (lamp: string, hinted: boolean) =>
     `the measured lines match no pattern of the ${lamp} list${hinted ? ' within the hint' : ''}; check the lamp name${hinted ? ' and the hint' : ', or give a hint (--range, --center with --dispersion, or the grating set-up)'}`,
-  tooFewLines: (used: number, order: number) =>
-    `only ${used} usable identified line${used === 1 ? '' : 's'} for a polynomial of order ${order}, which needs at least ${order + 3}; lower the order or add lamp lines`,
+  tooFewLines: (used: number, order: number, needed: number = order + 3) =>
+    `only ${used} usable identified line${used === 1 ? '' : 's'} for a polynomial of order ${order}, which needs at least ${needed}; lower the order or add lines`,
   fewIdentified: (identified: number, measured: number, fraction: number) =>
     `only ${identified} of ${measured} measured lines (${(100 * fraction).toFixed(0)} %, below ${(100 * MIN_IDENTIFIED_FRACTION).toFixed(0)} %) were identified; is the lamp the one named?`,
   largeResiduals: (rmsPixels: number, limitPixels: number) =>

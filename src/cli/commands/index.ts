@@ -1,4 +1,6 @@
 import type { Command } from '../command.js';
+import { applyCommand } from './apply.js';
+import { calibrateCommand } from './calibrate.js';
 import { barycentricCommand } from './barycentric.js';
 import { infoCommand } from './info.js';
 import { orbitCommand } from './orbit.js';
@@ -8,6 +10,8 @@ import { periodogramCommand } from './periodogram.js';
 export const commands: readonly Command[] = [
   infoCommand,
   barycentricCommand,
+  calibrateCommand,
+  applyCommand,
   periodogramCommand,
   orbitCommand,
 ];
