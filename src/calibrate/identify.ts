@@ -18,20 +18,26 @@
  *    idea of triangle matching in star-pattern recognition (e.g. Groth 1986, AJ 91, 1244;
  *    Valdes et al. 1995, PASP 107, 1119) brought down to one dimension.
  * 3. **Voting.** Each pair of matching triplets proposes a dispersion D (from the outer
- *    lines) and the wavelength at the middle pixel of the detector (extrapolated linearly);
- *    votes go into bins 3 % wide in ln |D| and N/25 pixels wide in wavelength. With a hint,
- *    only proposals that agree with it (within its accuracy in wavelength and its tolerance
- *    in dispersion, both at the triplet) are counted.
- * 4. **Verification by growth.** From the best-voted proposals (several seeds per bin, the
- *    brightest first), a seed's three pairs define a local linear map; lines within a growing
- *    pixel range around the matched ones are matched to the nearest reference line when it
- *    lies within a tolerance (max(0.5 pixel, 4 σ of the centres, 3 × the current RMS),
- *    wider when extrapolating) and no comparably bright reference line is nearly as close;
- *    the map is refitted (order rising with the number of matches, up to 3 — or the order
- *    asked, when higher), and the matching repeated until nothing changes. The candidate
- *    that matches the most lines (then the smallest RMS) wins. A wrong seed rarely grows:
- *    the chance of a random line falling within the tolerance is the list's density times
- *    the tolerance, typically < 0.15.
+ *    lines) and the wavelength at the middle pixel of the detector (extrapolated linearly).
+ *    A proposal counts only when neighbouring peaks confirm it (of the two peaks beyond each
+ *    end of the triplet, at least two — one for fewer than 20 peaks — fall on list lines
+ *    where the proposal predicts them, within 1 pixel plus a curvature allowance, see
+ *    {@link CURVATURE_ALLOWANCE}). Votes go into bins 4 % wide in ln |D| and N/25 pixels
+ *    wide in wavelength; bins are ranked by the significance of their votes (with their
+ *    neighbours') over the random background of their row of dispersion. With a hint, only
+ *    proposals that agree with it (within its accuracy in wavelength and its tolerance in
+ *    dispersion, both at the triplet) are counted.
+ * 4. **Verification by growth.** From the best-ranked bins (several seeds per bin, the
+ *    brightest first), a seed's three pairs define a first map; the matched lines are
+ *    refitted (order rising with their number, up to 3 — or the order asked, when higher),
+ *    and every peak inside their range plus the nearest few outside it is matched to the
+ *    nearest reference line within a tolerance — max(0.5 pixel, 4 σ of the centres,
+ *    3 × RMS, at most twice the first), plus three times the fit's own prediction error
+ *    there (which grows when extrapolating) — unless a comparably bright reference line is
+ *    nearly as close; this repeats until nothing changes. The candidate that matches the most
+ *    lines (then the smallest RMS) wins. A wrong seed rarely grows: the chance of a random
+ *    line falling within the tolerance is the list's density times the tolerance,
+ *    typically < 0.15.
  */
 import { UsageError } from '../errors.js';
 import type { LineList } from '../lines/linelist.js';
@@ -347,6 +353,18 @@ function triplets(values: Float64Array, window: number, subset?: readonly number
   return out;
 }
 
+/**
+ * Largest relative change of the dispersion over the detector that the pattern search
+ * allows for (0.3 = 30 %): it widens the neighbour-confirmation tolerance by 0.15·u²/N
+ * pixels at a distance u from the triplet (the departure of a parabola from its tangent).
+ * (Widening the triplet-ratio tolerance too let random matches crowd out the true ones
+ * for sparse lamps such as helium, so the ratio tolerance stays at 0.005.) Grating
+ * spectrographs change their dispersion by 5–20 % across the sensor (cos β and the
+ * projection onto a flat sensor; e.g. d cos³β/(mL) for a transmission grating), so 30 %
+ * covers them with a margin (our own choice).
+ */
+export const CURVATURE_ALLOWANCE = 0.3;
+
 /** Minimum number of matched lines for identification to report success. */
 export const MIN_IDENTIFIED_LINES = 4;
 
@@ -452,6 +470,7 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
     const span = px[t.c] - px[t.a];
     if (span < 3) continue;
     const sr = Math.sqrt(3) * (Number.isFinite(sig[t.b]) ? Math.max(sig[t.a], sig[t.b], sig[t.c]) : medSig) / span;
+    // Ratio tolerance: 0.005 (the local change of dispersion within a triplet of neighbours) and the centres' errors.
     const tol = 0.005 + 3 * sr;
     const w = strength[t.a] + strength[t.b] + strength[t.c];
     for (const dir of sign === 0 ? [1, -1] : [sign]) {
@@ -473,7 +492,8 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
           if (e < 0 || e >= px.length || e === t.b) continue;
           available++;
           const pred = lamB + D * (px[e] - px[t.b]);
-          const tolA = aD * Math.max(1, 0.01 * Math.abs(px[e] - px[t.b]));
+          const u = Math.abs(px[e] - px[t.b]);
+          const tolA = aD * (Math.max(1, 0.01 * u) + (0.5 * CURVATURE_ALLOWANCE * u * u) / nPix);
           const q = lowerBound(rawW, pred - tolA);
           if (q < rawW.length && rawW[q] <= pred + tolA) confirmed++;
         }
