@@ -287,7 +287,7 @@ function wavelengthAndDispersion(r: Resolved, pixel: number): { wavelength: numb
  * @throws {UsageError} for an incomplete or impossible set-up.
  * @example
  * // 100 lines/mm grating 50 mm in front of a sensor of 5.4 µm pixels, zero order at pixel 200
- * gratingPixelToWavelength({ kind: 'transmission', linesPerMm: 100, distanceMm: 50, pixelSizeUm: 5.4, zeroOrderPixel: 200 }, 700); // ≈ 5372 Å
+ * gratingPixelToWavelength({ kind: 'transmission', linesPerMm: 100, distanceMm: 50, pixelSizeUm: 5.4, zeroOrderPixel: 200 }, 700); // ≈ 5392.1 Å
  */
 export function gratingPixelToWavelength(setup: GratingSetup, pixel: number): number {
   return wavelengthAndDispersion(resolve(setup), pixel).wavelength;
@@ -321,7 +321,7 @@ export function gratingDispersion(setup: GratingSetup, pixel: number): number {
  * @returns 0-based pixel index (fractional), or NaN when the order does not exist for λ or
  *   the ray misses the sensor plane.
  * @throws {UsageError} for an incomplete or impossible set-up.
- * @example gratingWavelengthToPixel({ kind: 'transmission', linesPerMm: 100, distanceMm: 50, pixelSizeUm: 5.4, zeroOrderPixel: 200 }, 5372.4); // ≈ 700
+ * @example gratingWavelengthToPixel({ kind: 'transmission', linesPerMm: 100, distanceMm: 50, pixelSizeUm: 5.4, zeroOrderPixel: 200 }, 5392.144); // ≈ 700
  */
 export function gratingWavelengthToPixel(setup: GratingSetup, wavelengthAngstrom: number): number {
   const r = resolve(setup);
@@ -353,7 +353,7 @@ export interface GratingDescription {
  * @param pixels number of pixels along the dispersion (≥ 2).
  * @returns the summary.
  * @throws {UsageError} for an incomplete or impossible set-up.
- * @example describeGrating({ kind: 'slit', linesPerMm: 1200, incidenceDeg: 20, deviationDeg: 30, focalLengthMm: 200, pixelSizeUm: 9, pixels: 2048 }, 2048).dispersionAngstromPerPixel.middle; // ≈ 0.36
+ * @example describeGrating({ kind: 'slit', linesPerMm: 1200, incidenceDeg: 25, deviationDeg: 10, focalLengthMm: 200, pixelSizeUm: 9, pixels: 2048 }, 2048).dispersionAngstromPerPixel.middle; // ≈ 0.362 (λ ≈ 5679 Å at β = 15°)
  */
 export function describeGrating(setup: GratingSetup, pixels: number): GratingDescription {
   if (!Number.isInteger(pixels) || pixels < 2) throw new UsageError('grating.bad-pixels', `pixels must be a whole number ≥ 2, got ${pixels}`);
@@ -398,7 +398,7 @@ export function gratingWavelengths(setup: GratingSetup, pixels: number): Float64
  * @param pixel 0-based pixel index.
  * @returns σ_λ in Å (0 when no uncertainties are given).
  * @throws {UsageError} for a negative uncertainty or a parameter the set-up does not use.
- * @example gratingWavelengthUncertainty(setup, { distanceMm: 0.5, zeroOrderPixel: 1 }, 700); // Å
+ * @example gratingWavelengthUncertainty({ kind: 'transmission', linesPerMm: 100, distanceMm: 50, pixelSizeUm: 5.4, zeroOrderPixel: 200 }, { distanceMm: 0.5, zeroOrderPixel: 1 }, 700); // ≈ 54.8 Å
  */
 export function gratingWavelengthUncertainty(setup: GratingSetup, uncertainties: Readonly<Partial<Record<GratingParameterName, number>>>, pixel: number): number {
   let variance = 0;
