@@ -203,8 +203,8 @@ export const STANDARD_CASES = {
   neArRed: { lamp: 'neon,argon', pixels: 2048, fwhmPixels: 3, curve: cubicCurve([6400, 0.55, -1.2e-5, -2.0e-9], 1024) },
   /** Ne+Ar, low resolution, 4096 pixels, ≈ 1.1 Å/pixel (from 4000 to 8600 Å), quadratic. */
   neArWide: { lamp: 'neon,argon', pixels: 4096, fwhmPixels: 4, curve: cubicCurve([6300, 1.12, 1.5e-5, 0], 2048) },
-  /** Hg, blue-green, 2048 pixels, ≈ 1.2 Å/pixel. */
-  mercury: { lamp: 'mercury', pixels: 2048, fwhmPixels: 3, curve: cubicCurve([4900, 1.2, 2.0e-5, 0], 1024) },
+  /** Hg, 3605–5815 Å (from the 3650 Å group to 5804 Å), 2048 pixels, ≈ 1.08 Å/pixel. */
+  mercury: { lamp: 'mercury', pixels: 2048, fwhmPixels: 3, curve: cubicCurve([4700, 1.08, 1.0e-5, 0], 1024) },
   /** He, 2048 pixels, ≈ 1.6 Å/pixel. */
   helium: { lamp: 'helium', pixels: 2048, fwhmPixels: 3, curve: cubicCurve([5600, 1.6, -1.0e-5, 0], 1024) },
   /** Ne+Ar through a slit spectrograph described by the grating equation (600 lines/mm, f = 135 mm). */
