@@ -10,7 +10,7 @@ import { calibrationMessages } from './messages.js';
 import { evaluatePolynomial, quickFit } from './polynomial.js';
 import type { DispersionSolution } from './solution.js';
 
-/** Order of the Chebyshev series that stands for the grating equation (its departure is reported; below 10⁻⁴ pixel for the set-ups tested). */
+/** Order of the Chebyshev series that stands for the grating equation (its largest departure is recorded in the provenance; below 10⁻³ pixel for the set-ups tested). */
 const GRATING_SERIES_ORDER = 5;
 
 /**
