@@ -14,3 +14,4 @@ export * from './velocity/index.js';
 export * from './orbit/index.js';
 export * from './plot/index.js';
 export * from './notebook/index.js';
+export * from './report/index.js';

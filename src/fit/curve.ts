@@ -55,9 +55,13 @@ export function fitCurve(data: CurveData, model: CurveModel, options: CurveFitOp
     if (Number.isFinite(data.x[i]) && Number.isFinite(data.y[i]) && s > 0 && Number.isFinite(s)) keep.push(i);
   }
   const m = keep.length;
-  const x = Float64Array.from(keep, (i) => data.x[i]);
-  const y = Float64Array.from(keep, (i) => data.y[i]);
-  const inv = Float64Array.from(keep, (i) => (data.sigma ? 1 / data.sigma[i] : 1));
+  const x = new Float64Array(m), y = new Float64Array(m), inv = new Float64Array(m);
+  for (let k = 0; k < m; k++) {
+    const i = keep[k];
+    x[k] = data.x[i];
+    y[k] = data.y[i];
+    inv[k] = data.sigma ? 1 / data.sigma[i] : 1;
+  }
   const n = options.initial.length;
   const grad = new Float64Array(n);
   return leastSquares({

@@ -136,7 +136,8 @@ export function guessLineParameters(
     s = sum < 0 ? 'absorption' : 'emission';
   } else s = sign;
   const sg = s === 'absorption' ? -1 : 1;
-  const q = Float64Array.from(r, (v) => sg * v);
+  const q = new Float64Array(m);
+  for (let i = 0; i < m; i++) q[i] = sg * r[i];
   const qs = smooth3(q);
   const localPeak = (c: number, reach: number) => {
     const i0 = nearest(c);

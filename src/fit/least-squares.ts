@@ -287,15 +287,8 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
       failureDetail = 'the sum of squares overflows';
       return { status: 'non-finite-residuals', chi2: Infinity };
     }
-    for (let i = 0; i < m; i++) {
-      for (let k = 0; k < nf; k++) {
-        const v = jj[i * n + free[k]];
-        if (!Number.isFinite(v)) {
-          failureDetail = `derivative of residual ${i} with respect to ${name(free[k])} is ${v}`;
-          return { status: 'non-finite-jacobian', chi2: Infinity };
-        }
-      }
-    }
+    // The Jacobian is checked where it is used: a NaN or infinite entry makes the diagonal
+    // of JᵀJ non-finite (see the normal equations below).
     return { status: 'ok', chi2 };
   };
 
@@ -317,25 +310,36 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   const delta = new Float64Array(nf);
   const pT = new Float64Array(n);
   const active = new Uint8Array(nf);
+  const jrow = new Float64Array(nf);
   let lambda = INITIAL_DAMPING;
   let nu = 2;
   let lastTrialFailure: EvalStatus | null = null;
 
   for (;;) {
     if (chi2 === 0) return finish('exact-fit', chi2);
-    // Normal equations over the free parameters: A = JᵀJ, g = Jᵀr (weights already applied).
+    // Normal equations over the free parameters: A = JᵀJ, g = Jᵀr (weights already applied),
+    // accumulated row by row from a contiguous copy of the free columns.
     a.fill(0);
     g.fill(0);
+    const J = jac;
     for (let i = 0; i < m; i++) {
       const row = i * n;
+      for (let k = 0; k < nf; k++) jrow[k] = J[row + free[k]];
       const ri = r[i];
       for (let k = 0; k < nf; k++) {
-        const jk = jac[row + free[k]];
+        const jk = jrow[k];
+        if (jk === 0) continue;
         g[k] += jk * ri;
-        for (let l = 0; l <= k; l++) a[k * nf + l] += jk * jac[row + free[l]];
+        const ak = k * nf;
+        for (let l = 0; l <= k; l++) a[ak + l] += jk * jrow[l];
       }
     }
     for (let k = 0; k < nf; k++) for (let l = 0; l < k; l++) a[l * nf + k] = a[k * nf + l];
+    for (let k = 0; k < nf; k++) {
+      if (!Number.isFinite(a[k * nf + k]) || !Number.isFinite(g[k])) {
+        return finish('non-finite-jacobian', chi2, `a derivative with respect to ${name(free[k])} is NaN or infinite${iterations === 0 ? ' at the starting point' : ''}`);
+      }
+    }
     // Marquardt scaling (MINPACK mode 1): D grows to the largest column norm seen.
     for (let k = 0; k < nf; k++) {
       const cn = Math.sqrt(a[k * nf + k]);
@@ -375,15 +379,15 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
         if (Math.abs(delta[k]) > xtol * (Math.abs(p[j]) + xtol)) stepSmall = false;
       }
       if (!anyMove) return finish('step-converged', chi2);
-      // Predicted reduction of the linear model: −2 gᵀδ − ‖Jδ‖².
+      // Predicted reduction of the linear model: −2 gᵀδ − ‖Jδ‖², with ‖Jδ‖² = δᵀ(JᵀJ)δ.
       let gd = 0;
       for (let k = 0; k < nf; k++) gd += g[k] * delta[k];
       let jd2 = 0;
-      for (let i = 0; i < m; i++) {
+      for (let k = 0; k < nf; k++) {
+        if (delta[k] === 0) continue;
         let s = 0;
-        const row = i * n;
-        for (let k = 0; k < nf; k++) s += jac[row + free[k]] * delta[k];
-        jd2 += s * s;
+        for (let l = 0; l < nf; l++) s += a[k * nf + l] * delta[l];
+        jd2 += delta[k] * s;
       }
       const predicted = -2 * gd - jd2;
       const trial = evaluateAt(pT, rT, jacT);

@@ -65,55 +65,53 @@ export interface PivotedQR {
  * libraries use for pseudo-inverses; common practice).
  */
 export function pivotedQR(a: Float64Array, m: number, n: number): PivotedQR {
-  const q = Float64Array.from(a.subarray(0, m * n));
+  // Column-major working copy: column j occupies q[j*m … j*m + m − 1], so every Householder
+  // operation runs over contiguous memory.
+  const q = new Float64Array(m * n);
+  for (let i = 0; i < m; i++) for (let j = 0; j < n; j++) q[j * m + i] = a[i * n + j];
   const perm = new Int32Array(n);
   for (let j = 0; j < n; j++) perm[j] = j;
   const betas = new Float64Array(n);
-  const norms = new Float64Array(n);
   const diag = new Float64Array(n);
-  for (let j = 0; j < n; j++) {
-    let s = 0;
-    for (let i = 0; i < m; i++) s += q[i * n + j] * q[i * n + j];
-    norms[j] = s;
-  }
   for (let k = 0; k < n; k++) {
-    // Pivot: the remaining column with the largest norm (recomputed exactly: n is small).
+    // Pivot: the remaining column with the largest norm below row k (recomputed exactly: n is small).
     let best = k;
     let bestNorm = -1;
     for (let j = k; j < n; j++) {
       let s = 0;
-      for (let i = k; i < m; i++) s += q[i * n + j] * q[i * n + j];
-      norms[j] = s;
+      const o = j * m;
+      for (let i = k; i < m; i++) s += q[o + i] * q[o + i];
       if (s > bestNorm) { bestNorm = s; best = j; }
     }
     if (best !== k) {
-      for (let i = 0; i < m; i++) {
-        const t = q[i * n + k]; q[i * n + k] = q[i * n + best]; q[i * n + best] = t;
-      }
+      const ok = k * m, ob = best * m;
+      for (let i = 0; i < m; i++) { const t = q[ok + i]; q[ok + i] = q[ob + i]; q[ob + i] = t; }
       const tp = perm[k]; perm[k] = perm[best]; perm[best] = tp;
     }
+    const ok = k * m;
     const xnorm = Math.sqrt(bestNorm);
     if (xnorm === 0) { betas[k] = 0; diag[k] = 0; continue; }
-    const x0 = q[k * n + k];
+    const x0 = q[ok + k];
     const alpha = x0 >= 0 ? -xnorm : xnorm;
-    // v = x - alpha e1, stored in column k rows k..m-1; beta = 2 / (vᵀv).
+    // v = x − alpha e1, stored in column k rows k..m−1; beta = 2 / (vᵀv).
     const v0 = x0 - alpha;
-    q[k * n + k] = v0;
+    q[ok + k] = v0;
     const vtv = bestNorm - x0 * x0 + v0 * v0;
     const beta = vtv > 0 ? 2 / vtv : 0;
     betas[k] = beta;
     diag[k] = alpha;
     for (let j = k + 1; j < n; j++) {
+      const oj = j * m;
       let s = 0;
-      for (let i = k; i < m; i++) s += q[i * n + k] * q[i * n + j];
+      for (let i = k; i < m; i++) s += q[ok + i] * q[oj + i];
       s *= beta;
-      for (let i = k; i < m; i++) q[i * n + j] -= s * q[i * n + k];
+      for (let i = k; i < m; i++) q[oj + i] -= s * q[ok + i];
     }
   }
   const r = new Float64Array(n * n);
   for (let i = 0; i < n; i++) {
     r[i * n + i] = diag[i];
-    for (let j = i + 1; j < n; j++) r[i * n + j] = q[i * n + j];
+    for (let j = i + 1; j < n; j++) r[i * n + j] = q[j * m + i];
   }
   const tol = Math.max(m, n) * Number.EPSILON * Math.abs(diag[0]);
   let rank = 0;
@@ -124,10 +122,11 @@ export function pivotedQR(a: Float64Array, m: number, n: number): PivotedQR {
       for (let k = 0; k < n; k++) {
         const beta = betas[k];
         if (beta === 0) continue;
+        const ok = k * m;
         let s = 0;
-        for (let i = k; i < m; i++) s += q[i * n + k] * b[i];
+        for (let i = k; i < m; i++) s += q[ok + i] * b[i];
         s *= beta;
-        for (let i = k; i < m; i++) b[i] -= s * q[i * n + k];
+        for (let i = k; i < m; i++) b[i] -= s * q[ok + i];
       }
     },
   };

@@ -30,7 +30,17 @@ export function componentSize(profile: LineProfile): number {
   return PROFILE_WIDTH_NAMES[profile].length + 2;
 }
 
-/** Parameter names in vector order (components numbered from 1). */
+/**
+ * Names of a line model's parameters in vector order: the continuum coefficients, then
+ * per component (numbered from 1) its centre, FWHM(s) and amplitude. These are the names
+ * that `initial`, `bounds`, `fixed` and `ties` of the line fits accept.
+ *
+ * @param shape profile, number of components, continuum order (the reference point is not used).
+ * @returns the names, e.g. `continuumConstant, continuumSlope, center1, fwhm1, amplitude1`.
+ * @example
+ * lineModelParameterNames({ profile: 'voigt', components: 1, continuumOrder: 0, continuumReference: 0 });
+ * // ['continuumConstant', 'center1', 'fwhmGaussian1', 'fwhmLorentzian1', 'amplitude1']
+ */
 export function lineModelParameterNames(shape: LineModelShape): string[] {
   const names: string[] = CONTINUUM_NAMES.slice(0, shape.continuumOrder + 1);
   for (let k = 1; k <= shape.components; k++) {
@@ -54,6 +64,8 @@ export function continuumAt(shape: LineModelShape, p: ArrayLike<number>, x: numb
   return v;
 }
 
+const GRAD = new Float64Array(3);
+
 /**
  * Evaluates the model at every x into `out`, and (when `jacobian` is given, row-major
  * m × n) its derivatives with respect to every parameter.
@@ -64,7 +76,7 @@ export function evaluateLineModel(
   const n = lineModelParameterCount(shape);
   const nc = shape.continuumOrder + 1;
   const cs = componentSize(shape.profile);
-  const g = new Float64Array(3);
+  const g = GRAD;
   const ref = shape.continuumReference;
   for (let i = 0; i < x.length; i++) {
     const t = x[i] - ref;

@@ -18,9 +18,16 @@ export interface SignalToNoise {
 /** 1.482602/√6: converts the median absolute second difference into a Gaussian σ (Stoehr et al. 2008). */
 const DER_SNR_FACTOR = 1.482602 / Math.sqrt(6);
 
-/** Median of a numeric array (sorted copy; the input is not modified). NaN for an empty array. */
+/**
+ * Median of numeric values (of a sorted copy: the input is not modified).
+ *
+ * @param values any numbers; NaN values sort last and so bias the result: remove them first.
+ * @returns the middle value, or the mean of the two middle values; NaN for no values.
+ * @example
+ * median([3, 1, 2, 10]); // 2.5
+ */
 export function median(values: ArrayLike<number>): number {
-  const a = Float64Array.from(values).sort();
+  const a = new Float64Array(values).sort();
   const n = a.length;
   if (n === 0) return NaN;
   return n % 2 ? a[(n - 1) / 2] : (a[n / 2 - 1] + a[n / 2]) / 2;

@@ -1,2 +1,3 @@
-// Public API of the notebook area; each module of the area is re-exported here.
-export {};
+// Public API of the notebook area: MIME bundles and display in the tslab kernel.
+export { mimeBundle, plotBundle, tableBundle, type MimeBundle, type Displayable } from './bundle.js';
+export { display, kernelChannel, type DisplayOptions, type KernelChannel } from './display.js';

@@ -1,2 +1,26 @@
-// Public API of the plot area; each module of the area is re-exported here.
-export {};
+// Public API of the plot area: Vega-Lite spec builders, theme, SVG rendering.
+export { VEGA_LITE_SCHEMA_URL, VEGA_LITE_MIME_TYPE, isVegaLiteSpec, type VegaLiteSpec, type PlotDatum } from './spec.js';
+export { OKABE_ITO, PLOT_THEME, vegaLiteConfig, type PlotTheme } from './theme.js';
+export type { PlotOptions } from './common.js';
+export { textWidthPx } from './textWidth.js';
+export { placeLabels, type LabelAnchor, type PlacedLabel, type LabelPlacementOptions } from './labels.js';
+export { spectrumPlot, spectrumPlotData, type SpectrumPlotData, type SpectrumPlotOptions, type MarkedLine } from './spectrum.js';
+export { lineFitPlot, type LineFitPlotData, type LineFitPlotOptions, type FitComponent, type FitCentre } from './lineFit.js';
+export {
+  calibrationResidualPlot,
+  type CalibrationResidualPlotData,
+  type CalibrationResidualPlotOptions,
+  type CalibrationLinePoint,
+  type DispersionCurve,
+} from './calibration.js';
+export { crossCorrelationPlot, type CrossCorrelationPlotData, type CrossCorrelationPeak } from './crossCorrelation.js';
+export {
+  velocityCurvePlot,
+  phaseFoldedVelocityPlot,
+  type VelocityCurvePlotData,
+  type VelocityCurvePlotOptions,
+  type PhaseFoldedPlotData,
+  type PhaseFoldedPlotOptions,
+} from './velocity.js';
+export { periodogramPlot, type PeriodogramPlotData, type PeriodogramPlotOptions, type FalseAlarmLevel } from './periodogram.js';
+export { renderSvg, compileVegaLite, prefixSvgIds, type RenderOptions, type CompiledPlot } from './render.js';

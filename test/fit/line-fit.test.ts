@@ -183,3 +183,51 @@ describe('fitLine', () => {
     expect(() => fitLineArrays({ x: [1, 2, 2], flux: [1, 2, 3] }, { center: 2 })).toThrow(/x is not strictly monotonic at index 2/);
   });
 });
+
+describe('fitWindow', () => {
+  it('fits every window found in a lamp spectrum, in pixels, with pulls consistent with the uncertainties', async () => {
+    const { findLines } = await import('../../src/lines/find.js');
+    const { fitWindow } = await import('../../src/fit/line-fit.js');
+    const { lampSpectrum } = await import('../helpers/synthetic.js');
+    const lamp = lampSpectrum(8, { withUncertainty: true, pixels: 1200, count: 30 });
+    // The same lamp on a pixel axis (0-based index), as before calibration.
+    const px = createSpectrum({ wavelength: lamp.spectrum.wavelength.map((_, i) => i), flux: lamp.spectrum.flux, uncertainty: lamp.spectrum.uncertainty, unit: 'pixel' });
+    const found = findLines(px);
+    const pulls: number[] = [];
+    for (const w of found.windows) {
+      const r = fitWindow(px, w);
+      expect(r.converged, r.message).toBe(true);
+      expect(r.unit).toBe('pixel');
+      for (const c of r.components) {
+        const truth = lamp.lines.reduce((a, b) => (Math.abs((b.center - 4000) / 1.5 - c.center.value) < Math.abs((a.center - 4000) / 1.5 - c.center.value) ? b : a));
+        pulls.push((c.center.value - (truth.center - 4000) / 1.5) / c.center.uncertainty);
+      }
+    }
+    expect(pulls.length).toBeGreaterThan(20);
+    // Centre pulls of independent lines: |pull| < 4 for all (a 4σ outlier among ~30 has probability ~0.2 %).
+    expect(Math.max(...pulls.map(Math.abs))).toBeLessThan(4);
+  });
+});
+
+describe('robustness', () => {
+  it('never throws anything but a UsageError, whatever the flux (property test)', async () => {
+    const fc = (await import('fast-check')).default;
+    const value = fc.oneof(
+      fc.double({ min: -1e6, max: 1e6, noNaN: true }),
+      fc.constantFrom(NaN, Infinity, -Infinity, 0, 1e300, -1e300, 5e-324),
+    );
+    fc.assert(fc.property(
+      fc.array(value, { minLength: 3, maxLength: 40 }), fc.constantFrom('gaussian', 'lorentzian', 'voigt'), fc.integer({ min: 1, max: 3 }),
+      (flux, profile, components) => {
+        const x = flux.map((_, i) => 5000 + i);
+        try {
+          const r = fitLineArrays({ x, flux }, { center: 5000 + flux.length / 2, profile: profile as 'gaussian', components });
+          expect(typeof r.converged).toBe('boolean');
+          if (!r.converged) expect(r.message.length).toBeGreaterThan(0);
+        } catch (e) {
+          expect(e).toBeInstanceOf(UsageError);
+        }
+      },
+    ), { numRuns: 300, seed: 42 });
+  });
+});

@@ -2,6 +2,8 @@ import type { Command } from '../command.js';
 import { applyCommand } from './apply.js';
 import { calibrateCommand } from './calibrate.js';
 import { barycentricCommand } from './barycentric.js';
+import { findCommand } from './find.js';
+import { fitCommand } from './fit.js';
 import { infoCommand } from './info.js';
 import { orbitCommand } from './orbit.js';
 import { periodogramCommand } from './periodogram.js';
@@ -12,6 +14,8 @@ export const commands: readonly Command[] = [
   barycentricCommand,
   calibrateCommand,
   applyCommand,
+  findCommand,
+  fitCommand,
   periodogramCommand,
   orbitCommand,
 ];
