@@ -23,8 +23,9 @@
  *    end of the triplet, at least two — one for fewer than 20 peaks — fall on list lines
  *    where the proposal predicts them, within 1 pixel plus a curvature allowance, see
  *    {@link CURVATURE_ALLOWANCE}). Votes go into bins 4 % wide in ln |D| and N/25 pixels
- *    wide in wavelength; bins are ranked by the significance of their votes (with their
- *    neighbours') over the random background of their row of dispersion. With a hint, only
+ *    wide in wavelength, one vote per peak triplet and bin; bins are ranked by the excess
+ *    of their votes (with their neighbours') over the background of their rows of
+ *    dispersion, (n − e)/(e + 5). With a hint, only
  *    proposals that agree with it (within its accuracy in wavelength and its tolerance in
  *    dispersion, both at the triplet) are counted.
  * 4. **Verification by growth.** From the best-ranked bins (several seeds per bin, the
@@ -455,7 +456,7 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   const binPx = nPix / 25;
   const mid = (domain.min + domain.max) / 2;
   interface Seed { t: Triplet; L: Triplet; d: number; s: number; weight: number }
-  interface Bin { votes: number; iD: number; iL: number; dir: number; seeds: Seed[] }
+  interface Bin { votes: number; iD: number; iL: number; dir: number; seeds: Seed[]; last: number }
   const SEEDS_KEPT = 12;
   /** Bins by dispersion step and direction (index (iD + D_OFFSET)·2 + dirBit), then by wavelength step (small integers). */
   const D_OFFSET = 1000;
@@ -466,7 +467,7 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   const getBins = (iD: number, dir: number) => binsByD.get((iD + D_OFFSET) * 2 + (dir > 0 ? 1 : 0));
   let votes = 0;
   const needConfirm = px.length >= 20 ? 2 : 1;
-  for (const t of peakTriplets) {
+  for (const [ti, t] of peakTriplets.entries()) {
     const span = px[t.c] - px[t.a];
     if (span < 3) continue;
     const sr = Math.sqrt(3) * (Number.isFinite(sig[t.b]) ? Math.max(sig[t.a], sig[t.b], sig[t.c]) : medSig) / span;
@@ -504,8 +505,9 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
         let byL = getBins(iD, D);
         if (!byL) { byL = new Map(); binsByD.set((iD + D_OFFSET) * 2 + (D > 0 ? 1 : 0), byL); }
         let bin = byL.get(iL);
-        if (!bin) { bin = { votes: 0, iD, iL, dir: D > 0 ? 1 : -1, seeds: [] }; byL.set(iL, bin); allBins.push(bin); }
-        bin.votes++;
+        if (!bin) { bin = { votes: 0, iD, iL, dir: D > 0 ? 1 : -1, seeds: [], last: -1 }; byL.set(iL, bin); allBins.push(bin); }
+        // One vote per peak triplet and bin: at large dispersions one triplet matches many list triplets of one bin.
+        if (bin.last !== ti) { bin.votes++; bin.last = ti; }
         if (bin.seeds.length < SEEDS_KEPT) bin.seeds.push({ t, L, d: D, s: iD, weight: w });
         else {
           let low = 0;
@@ -518,15 +520,14 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
   }
   if (allBins.length === 0) return empty('no-pattern', mode, votes);
 
-  // Rank bins by the significance of their votes plus their neighbours' over the random
-  // background of their row (random coincidences pile up at large dispersions, where a bin
-  // spans more wavelength): (n − e)/√(e + 1), e the row's mean count per occupied bin × 9.
+  // Rank bins by the excess of their votes (with their neighbours', 3 × 3 bins) over the
+  // background of their rows of dispersion (random coincidences pile up at large
+  // dispersions, where a bin spans more wavelength): (n − e)/(e + 5), e the rows' mean
+  // count per bin over the range they occupy, for 9 bins.
   const rowMean = new Map<number, number>();
   for (const [k, byL] of binsByD) {
-    let v = 0;
-    for (const b of byL.values()) v += b.votes;
-    let lo = Infinity, hi = -Infinity;
-    for (const iL of byL.keys()) { lo = Math.min(lo, iL); hi = Math.max(hi, iL); }
+    let v = 0, lo = Infinity, hi = -Infinity;
+    for (const [iL, b] of byL) { v += b.votes; lo = Math.min(lo, iL); hi = Math.max(hi, iL); }
     rowMean.set(k, v / (hi - lo + 1));
   }
   const ranked: { score: number; bin: Bin }[] = [];
@@ -539,7 +540,7 @@ export function identifyLines(peaks: readonly MeasuredPeak[], options: IdentifyO
       e += 3 * (rowMean.get((bin.iD + a + D_OFFSET) * 2 + (bin.dir > 0 ? 1 : 0)) ?? 0);
       for (let b = -1; b <= 1; b++) n += byL.get(bin.iL + b)?.votes ?? 0;
     }
-    ranked.push({ score: (n - e) / Math.sqrt(e + 1), bin });
+    ranked.push({ score: (n - e) / (e + 5), bin });
   }
   if (ranked.length === 0) for (const bin of allBins) ranked.push({ score: bin.votes, bin });
   ranked.sort((x, y) => y.score - x.score || y.bin.votes - x.bin.votes);

@@ -34,6 +34,9 @@ export interface CalibrateLampOptions {
   readonly observation?: { readonly midpointUtc: string; readonly mjdUtc: number } | null;
 }
 
+/** Identification uses at most this many of the brightest measured lines (the rest are matched under the first fit). */
+export const IDENTIFY_BRIGHTEST = 60;
+
 /** Default order of a dispersion solution. */
 export const DEFAULT_SOLUTION_ORDER = 3;
 /** Default largest accepted RMS, pixels (see {@link CalibrateLampOptions.maxRmsPixels}). */
@@ -125,13 +128,16 @@ export function calibrateLamp(spectrum: Spectrum, options: CalibrateLampOptions)
   const candidates = all.filter((l) => !l.flags.includes('fit-failed'));
   if (candidates.length < 4) return failed(base, 'too-few-lines', calibrationMessages.tooFewMeasured(candidates.length));
 
-  const id = identifyLines(candidates, { list, hint: options.hint, order, domain });
+  // The pattern is sought among the brightest lines (faint ones are more often spurious
+  // or blended); the matching pass below brings in the rest.
+  const brightest = [...candidates].sort((a, b) => b.strength - a.strength).slice(0, IDENTIFY_BRIGHTEST);
+  const id = identifyLines(brightest, { list, hint: options.hint, order, domain });
   if (!id.ok || !id.model) return failed(base, 'no-pattern', calibrationMessages.noPattern(options.lamp, options.hint !== undefined));
 
   // Assign list lines to every measured line: the identification's matches, then one
   // more pass under a first fit to pick up lines the growth did not reach.
   const assigned = new Map<LampLine, (typeof id.matches)[number]['line']>();
-  for (const m of id.matches) assigned.set(candidates[m.peakIndex], m.line);
+  for (const m of id.matches) assigned.set(brightest[m.peakIndex], m.line);
   const inputOf = (l: LampLine): SolutionInputLine => {
     const ref = assigned.get(l);
     const exclude = l.flags.includes('fit-failed') ? 'fit-failed' : !ref ? null : l.flags.includes('saturated') ? 'saturated' : ref.blend ? 'blend' : null;

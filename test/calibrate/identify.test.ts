@@ -48,12 +48,12 @@ describe('identification without a hint (triplet ratios, voting, growth)', () =>
   }
 
   for (const name of ['mercury', 'helium'] as const) {
-    it(`${name} (a sparse lamp): right in ≥ 95 % of 50 clean seeds; with spurious peaks and missing lines, reported`, () => {
+    it(`${name} (a sparse lamp): right in ≥ 95 % of 50 clean seeds, and in ≥ 85 % with spurious peaks and missing lines`, () => {
       const clean = successRate(name, { seeds: 50, lines: 40, missing: 0, spurious: 0 });
       const hard = successRate(name, { seeds: 50, lines: 40, missing: 0.2, spurious: 0.3 });
       console.log(`identification ${name}, blind: clean ${(100 * clean.rate).toFixed(0)} %, 30 % spurious + 20 % missing ${(100 * hard.rate).toFixed(0)} % of 50 seeds`);
       expect(clean.rate).toBeGreaterThanOrEqual(0.95);
-      expect(hard.rate).toBeGreaterThanOrEqual(0.5);
+      expect(hard.rate).toBeGreaterThanOrEqual(0.85);
     });
   }
 });
