@@ -88,6 +88,8 @@ export interface LampSpectrumOptions {
   readonly readNoise?: number;
   /** Flux is clipped at this level (a saturated, flat-topped line). Default none. */
   readonly saturationCounts?: number;
+  /** Keep only this many of the brightest lines (default all). */
+  readonly brightest?: number;
   readonly seed: number;
 }
 
@@ -107,7 +109,8 @@ export interface SyntheticLamp {
  * uncertainty column holds the true noise σ.
  */
 export function makeLampSpectrum(o: LampSpectrumOptions): SyntheticLamp {
-  const lines = placeLines(o.lamp, o.curve, o.pixels, o.fwhmPixels);
+  const placed = placeLines(o.lamp, o.curve, o.pixels, o.fwhmPixels);
+  const lines = o.brightest === undefined ? placed : [...placed].sort((a, b) => b.intensity - a.intensity).slice(0, o.brightest).sort((a, b) => a.pixel - b.pixel);
   const rand = mulberry32(o.seed);
   const ref = o.referenceIntensity ?? Math.max(...lines.map((l) => l.intensity));
   const bg = o.background ?? 100;
