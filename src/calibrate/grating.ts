@@ -100,7 +100,14 @@ export type GratingParameterName =
   | 'linesPerMm' | 'incidenceDeg' | 'cameraAngleDeg' | 'deviationDeg' | 'centerWavelengthAngstrom'
   | 'focalLengthMm' | 'distanceMm' | 'pixelSizeUm' | 'axisPixel' | 'zeroOrderPixel' | 'tiltDeg';
 
-/** Groove spacing d in Å for a groove density in lines per mm. */
+/**
+ * Groove spacing d in Å for a groove density: d = 10⁷ Å / (lines per mm).
+ *
+ * @param linesPerMm groove density (> 0).
+ * @returns d in Å.
+ * @throws {UsageError} for a non-positive or non-finite density.
+ * @example grooveSpacingAngstrom(600); // 16 666.67
+ */
 export function grooveSpacingAngstrom(linesPerMm: number): number {
   if (!(linesPerMm > 0) || !Number.isFinite(linesPerMm)) throw new UsageError('grating.bad-lines', `lines per mm must be a positive number, got ${linesPerMm}`);
   return ANGSTROM_PER_MM / linesPerMm;

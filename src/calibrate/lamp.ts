@@ -44,12 +44,25 @@ export const DEFAULT_MAX_RMS_PIXELS = 0.5;
 /** Fraction of the mean spacing of the lines used that the RMS must stay below (brief's rule of thumb, our own choice of 0.1). */
 export const MAX_RMS_FRACTION_OF_SPACING = 0.1;
 
-/** The pixel coordinates of a spectrum (its axis when in pixels, else the 0-based index). */
+/**
+ * The pixel coordinates a solution uses for a spectrum: its axis when the unit is `pixel`,
+ * else the 0-based index.
+ *
+ * @param spectrum any spectrum.
+ * @returns the coordinates (the spectrum's own array when in pixels; do not modify it).
+ * @example pixelCoordinates(lamp)[0]; // 0
+ */
 export function pixelCoordinates(spectrum: Spectrum): Float64Array {
   return spectrum.unit === 'pixel' ? spectrum.wavelength : Float64Array.from({ length: spectrum.flux.length }, (_, i) => i);
 }
 
-/** The domain of a spectrum's pixel coordinates. */
+/**
+ * The range of a spectrum's pixel coordinates: the domain of the Chebyshev basis.
+ *
+ * @param spectrum any spectrum.
+ * @returns `{ min, max }` in pixels.
+ * @example pixelDomain(lamp); // { min: 0, max: 2047 }
+ */
 export function pixelDomain(spectrum: Spectrum): Domain {
   const x = pixelCoordinates(spectrum);
   const a = x[0], b = x[x.length - 1];

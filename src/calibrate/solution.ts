@@ -176,7 +176,16 @@ export function solutionWavelengths(solution: DispersionSolution, pixels: ArrayL
   return Float64Array.from({ length: pixels.length }, (_, i) => solutionWavelength(solution, pixels[i]));
 }
 
-/** Spread of the solution's own error over the domain (201 samples). */
+/**
+ * The solution's own 1-σ error at the middle of the domain and its largest value over 201
+ * evenly spaced pixels.
+ *
+ * @param coefficientsCovariance covariance of the Chebyshev coefficients, Å².
+ * @param order polynomial order.
+ * @param domain pixel domain.
+ * @returns `{ middle, max }` in Å.
+ * @example uncertaintySummary(solution.covariance, solution.order, solution.domain).max;
+ */
 export function uncertaintySummary(coefficientsCovariance: readonly (readonly number[])[], order: number, domain: Domain): { middle: number; max: number } {
   const flat = coefficientsCovariance.flat();
   let mx = 0;
@@ -296,7 +305,14 @@ export function fitDispersionSolution(lines: readonly SolutionInputLine[], optio
   };
 }
 
-/** Checks that an order is a whole number from 1 to 5. */
+/**
+ * Checks a polynomial order.
+ *
+ * @param order the order asked.
+ * @returns the order, when a whole number from 1 to 5.
+ * @throws {UsageError} `calibrate.bad-order` otherwise.
+ * @example checkOrder(3); // 3
+ */
 export function checkOrder(order: number): number {
   if (!Number.isInteger(order) || order < 1 || order > 5) throw new UsageError('calibrate.bad-order', `the polynomial order must be a whole number from 1 to 5, got ${order}`);
   return order;

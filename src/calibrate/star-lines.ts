@@ -27,7 +27,13 @@ export interface StarLineOptions {
   readonly maxFwhmPixels?: number;
 }
 
-/** The Balmer lines Hα … H10 of the shipped H I list (air wavelengths). */
+/**
+ * The Balmer lines Hα … H10 of the shipped H I list (air wavelengths, NIST; fine-structure
+ * blends).
+ *
+ * @returns a line list of 8 lines between 3797 and 6563 Å.
+ * @example balmerLineList().entries.length; // 8
+ */
 export function balmerLineList(): LineList {
   return filterLineList(loadLineList('H I'), { minWavelengthAngstrom: 3700, maxWavelengthAngstrom: 6600 });
 }
