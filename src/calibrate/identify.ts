@@ -262,7 +262,7 @@ function grow(ctx: Context, seed: readonly (readonly [number, number])[]): Candi
   const n = ctx.px.length;
   let matched = new Int32Array(n).fill(-1);
   for (const [i, r] of seed) matched[i] = r;
-  let coefficients = new Float64Array(0);
+  let coefficients: Float64Array = new Float64Array(0);
   let order = 1;
   let rmsPx = NaN;
   let reach = 2;
