@@ -91,7 +91,8 @@ function failed(base: Omit<DispersionSolution, 'ok' | 'reason' | 'message'>, rea
  * 3. at least order + 3 lines used (`too-few-lines`);
  * 4. at least half of the measured unflagged lines identified (`few-identified`: a wrong lamp);
  * 5. RMS ≤ min(`maxRmsPixels`, 0.1 × the mean spacing of the used lines) pixels
- *    (`large-residuals`), and with a hint, RMS in Å below a tenth of the hint's accuracy.
+ *    (`large-residuals`); this is far below the accuracy of any useful hint, so a solution
+ *    no better than its hint is never accepted.
  *
  * @param spectrum a lamp spectrum on a pixel axis (a calibrated axis is ignored: the 0-based index is used).
  * @param options lamp name or list, order, hint, clipping, detection options, limits.
