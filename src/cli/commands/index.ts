@@ -1,4 +1,6 @@
 import type { Command } from '../command.js';
+import { applyCommand } from './apply.js';
+import { calibrateCommand } from './calibrate.js';
 import { barycentricCommand } from './barycentric.js';
 import { elementsCommand } from './elements.js';
 import { findCommand } from './find.js';
@@ -11,6 +13,8 @@ import { periodogramCommand } from './periodogram.js';
 export const commands: readonly Command[] = [
   infoCommand,
   barycentricCommand,
+  calibrateCommand,
+  applyCommand,
   findCommand,
   fitCommand,
   elementsCommand,
