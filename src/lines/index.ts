@@ -2,3 +2,4 @@
 export * from './continuum.js';
 export * from './linelist.js';
 export * from './snr.js';
+export * from './synthetic.js';
