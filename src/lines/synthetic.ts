@@ -409,7 +409,7 @@ export function syntheticSpectrum(options: SyntheticSpectrumOptions): SyntheticS
   for (let j = 0; j < count; j++) x[j] = Math.exp(lnStart + j * step);
 
   // Line spectrum, then the instrument.
-  let L = new Float64Array(count).fill(1);
+  let L: Float64Array = new Float64Array(count).fill(1);
   for (const l of lines) {
     const lo = l.centre - l.halfWindow;
     const hi = l.centre + l.halfWindow;

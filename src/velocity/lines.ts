@@ -16,10 +16,12 @@
  *    the selected lines ({@link lineListTemplate}, {@link crossCorrelationVelocity}), or the
  *    deepest point near the expected position of any selected line.
  * 4. Each line is fitted ({@link fitLineArrays}: profile + linear continuum by weighted least
- *    squares) around its expected position. It is rejected when the fit fails, the centre
- *    sits at the edge of its window, the line is not detected (|amplitude| below
- *    `minimumSignificance` × its error), or its velocity lies further than
- *    `matchToleranceKmPerS` from the median of the fitted lines.
+ *    squares) around its expected position, its centre bounded to ±`matchToleranceKmPerS`
+ *    of it, twice: with free widths, then with the narrow lines sharing one width λ/R_eff
+ *    (`lineWidths`). It is rejected when the fit fails, the line is not detected (|amplitude|
+ *    below `minimumSignificance` × its error), the centre sits at its bound (another line, or
+ *    none), or its velocity lies further than `matchToleranceKmPerS` from the median of the
+ *    fitted lines.
  * 5. Velocity per line: relativistic Doppler formula (classical on request) from the
  *    observed and rest vacuum wavelengths; its error from the centre's error.
  * 6. Combination: {@link combineVelocities} — weighted mean, leave-one-out 3σ rejection
@@ -67,7 +69,10 @@ export interface LineVelocityOptions {
   blendSeparation?: number;
   /** Pixels within ± this many FWHM of other listed lines (of comparable width) are masked in a line's fit. Default 2.5. */
   maskHalfWidth?: number;
-  /** Largest distance of a line's velocity from the median of all fitted lines, km/s. Default c/R (one resolution element). */
+  /**
+   * How far a line's centre may lie from its expected position (a bound of its fit) and its
+   * velocity from the median of all fitted lines, km/s. Default c/R (one resolution element).
+   */
   matchToleranceKmPerS?: number;
   /** Smallest |amplitude|/σ(amplitude) for a line to count as detected. Default 3. */
   minimumSignificance?: number;
@@ -337,15 +342,17 @@ export function velocityFromLines(spectrum: Spectrum, options: LineVelocityOptio
       { x: wl.subarray(i0, i1), flux: flux.subarray(i0, i1), uncertainty: sigma?.subarray(i0, i1), mask },
       {
         center: c.expected, window: options.windowAngstrom ?? (pass === 0 ? undefined : 2 * WINDOW_HALF_WIDTH_FWHM * fwhm), profile, continuumOrder, sign: kind,
+        // The centre may not leave ±tolerance around the expected position (else it finds a neighbour).
+        bounds: { center1: [c.expected * (1 - tolerance / SPEED_OF_LIGHT_KM_PER_S), c.expected * (1 + tolerance / SPEED_OF_LIGHT_KM_PER_S)] },
         ...(fixedWidth[k] ? { fixed: { fwhm1: fwhm } } : {}),
       },
     );
     if (!fit.converged) return reject('fit-failed', `the fit did not converge (${fit.reason})`);
     const comp = fit.components[0];
-    if (fit.parameters.find((p) => p.name === 'center1')?.atBound) return reject('at-window-edge', 'the fitted centre is at the edge of the fitting window');
     if (!(Math.abs(comp.amplitude.value) >= minSig * comp.amplitude.uncertainty)) {
       return reject('not-detected', `not detected: amplitude ${Math.abs(comp.amplitude.value / comp.amplitude.uncertainty).toFixed(1)} σ (below ${minSig} σ)`);
     }
+    if (fit.parameters.find((p) => p.name === 'center1')?.atBound) return reject('at-window-edge', `the fitted centre is at the edge of its allowed range (±${tolerance.toFixed(1)} km/s around the expected position)`);
     const centre = comp.center;
     if (!(centre.uncertainty > 0) || !Number.isFinite(centre.uncertainty)) return reject('fit-failed', 'the fit gives no uncertainty for the centre');
     const v = dopplerVelocityKmPerS(centre.value, c.restVacuum, { formula });
@@ -368,12 +375,12 @@ export function velocityFromLines(spectrum: Spectrum, options: LineVelocityOptio
   const widths = first.map((r, k) => (useCommon && (narrow[k] || r.fwhmAngstrom === null) ? candidates[k].expected / commonR
     : r.fwhmAngstrom !== null && r.fwhmAngstrom > 0 ? r.fwhmAngstrom : candidates[k].expected / R));
   const rows = fitAll(widths, 1, first.map((r, k) => useCommon && (narrow[k] || r.fwhmAngstrom === null)));
-  const fitted = rows.filter((r) => r.velocityKmPerS !== null).map((r) => r.velocityKmPerS!.value);
 
   // Lines far from the others (a wrong match), then the combination.
+  const fitted = rows.filter((r) => r.velocityKmPerS !== null && r.reason === null).map((r) => r.velocityKmPerS!.value);
   const med = fitted.length ? medianOf(fitted) : NaN;
   for (const row of rows) {
-    if (row.velocityKmPerS && Math.abs(row.velocityKmPerS.value - med) > tolerance) {
+    if (row.velocityKmPerS && row.reason === null && Math.abs(row.velocityKmPerS.value - med) > tolerance) {
       row.reason = 'far-from-others';
       row.note = `velocity ${row.velocityKmPerS.value.toFixed(2)} km/s is more than ${tolerance.toFixed(1)} km/s from the median of the fitted lines (${med.toFixed(2)} km/s)`;
     }

@@ -80,23 +80,28 @@ describe('velocityFromLines', () => {
       { wavelengthAngstrom: 6380.0, species: 'Xx I' }, // no line there
       { wavelengthAngstrom: 6449.83, species: 'Yy I' }, // 0.02 Å from Ca I 6449.808: a blend
     ]);
-    // One rest wavelength wrong by 0.6 Å (28 km/s, beyond the tolerance c/R = 15 km/s), one by 0.05 Å (2.3 km/s, > 3σ).
+    // Rest wavelengths wrong by 0.6 Å (28 km/s: beyond the ±15 km/s, c/R, allowed around the
+    // expected position), by 0.4 Å (19 km/s: inside it, but 19 km/s from the other lines) and
+    // by 0.05 Å (2.3 km/s, many σ). The approximate velocity is given 10 km/s high.
     const shiftedEntries = list.entries.map((e) => {
       if (Math.abs(e.wavelengthAngstrom - 6400.0) < 0.01) return Object.freeze({ ...e, wavelengthAngstrom: e.wavelengthAngstrom - 0.6 });
+      if (Math.abs(e.wavelengthAngstrom - 6421.349) < 0.01) return Object.freeze({ ...e, wavelengthAngstrom: e.wavelengthAngstrom - 0.4 });
       if (Math.abs(e.wavelengthAngstrom - 6439.075) < 0.01) return Object.freeze({ ...e, wavelengthAngstrom: e.wavelengthAngstrom - 0.05 });
       return e;
     });
-    const r = velocityFromLines(s, { lines: { ...list, entries: shiftedEntries }, resolvingPower: 20000 });
+    const r = velocityFromLines(s, { lines: { ...list, entries: shiftedEntries }, resolvingPower: 20000, approximateVelocity: v + 10 });
     const row = (w: number) => r.lines.find((l) => Math.abs(l.restWavelengthAngstrom - w) < 0.02)!;
     expect(row(6380.0).reason).toBe('not-detected');
     expect(row(6380.0).note).toMatch(/^not detected: amplitude \d+\.\d σ \(below 3 σ\)$/);
     expect(row(6449.83).reason).toBe('blended');
     expect(row(6449.808).note).toMatch(/^blended with Yy I 6449\.830 Å \(closer than 2 FWHM\)$/);
-    expect(row(6399.4).reason).toBe('far-from-others');
-    expect(row(6399.4).note).toMatch(/^velocity 4\d\.\d\d km\/s is more than 15\.0 km\/s from the median of the fitted lines \(1\d\.\d\d km\/s\)$/);
+    expect(row(6399.4).reason).toBe('at-window-edge');
+    expect(row(6399.4).note).toBe('the fitted centre is at the edge of its allowed range (±15.0 km/s around the expected position)');
+    expect(row(6420.949).reason).toBe('far-from-others');
+    expect(row(6420.949).note).toMatch(/^velocity 3\d\.\d\d km\/s is more than 15\.0 km\/s from the median of the fitted lines \(1\d\.\d\d km\/s\)$/);
     expect(row(6439.025).reason).toBe('outlier');
     expect(row(6439.025).note).toMatch(/^outlier: normalised residual \d+\.\d\d against the other lines \(limit \d\.\d\d\)$/);
-    expect(r.linesRejected).toBe(5);
+    expect(r.linesRejected).toBe(6);
     expect(Math.abs(r.velocity.value - v)).toBeLessThan(4 * r.velocity.uncertainty);
   });
 
