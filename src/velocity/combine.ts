@@ -61,8 +61,17 @@ export interface VelocityCombination {
 const Z99 = 2.326348;
 
 /**
- * The 99th percentile of χ²/ν for ν degrees of freedom by the Wilson & Hilferty (1931)
- * cube-root normal approximation: (1 − 2/(9ν) + z√(2/(9ν)))³ (within 1 % for ν ≥ 3, 4 % at ν = 1).
+ * The 99th percentile of χ²/ν for ν degrees of freedom, the threshold above which
+ * {@link combineVelocities} scales its error.
+ *
+ * Method: the Wilson & Hilferty (1931, PNAS 17, 684) cube-root normal approximation,
+ * (1 − 2/(9ν) + z√(2/(9ν)))³ with z = 2.326348; within 1 % of scipy.stats.chi2.ppf for ν ≥ 3
+ * and 4 % at ν = 1 (test/velocity/combine.test.ts).
+ *
+ * @param degreesOfFreedom ν ≥ 1.
+ * @returns the reduced χ² exceeded with probability 0.01.
+ * @example
+ * reducedChiSquareQuantile99(10); // 2.32 (scipy: 2.3209)
  */
 export function reducedChiSquareQuantile99(degreesOfFreedom: number): number {
   const a = 2 / (9 * degreesOfFreedom);
@@ -95,8 +104,8 @@ function median(a: number[]): number {
  * @param values measurements with 1-σ uncertainties, same unit.
  * @param options clipping threshold and χ² scaling.
  * @returns the mean, its statistical uncertainty and scale, χ², and per input whether it
- *   was used or rejected. No usable input gives NaN values.
- * @throws never (bad options fall back to no rejection when the threshold is not > 0).
+ *   was used or rejected. No usable input gives NaN values, not an exception; a threshold
+ *   that is not > 0 turns rejection off.
  * @example
  * combineVelocities([{ value: 10, uncertainty: 1 }, { value: 12, uncertainty: 1 }, { value: 11, uncertainty: 1 }, { value: 40, uncertainty: 1 }]).value; // 11 (40 rejected)
  */
