@@ -94,6 +94,11 @@ describe('lineshift velocity', () => {
     expect(r!.ccf!.uncertaintyMethod).toBe('propagated');
     expect(r!.measuredVelocity.uncertainty).toBeCloseTo(r!.ccf!.uncertainties.propagated, 12);
     expect(r!.ccf!.peakHeight).toBeGreaterThan(0.5);
+    // The curve for plots: the peak of the first pass (template at its own velocity, 0) sits near the measured velocity.
+    const { velocityKmPerS: v, correlation: c } = r!.ccf!.curve;
+    expect(v.length).toBe(c.length);
+    expect(v[c.indexOf(Math.max(...c))]).toBeCloseTo(r!.measuredVelocity.value, -1);
+    expect(r!.ccf!.peakModel!.centerKmPerS).toBeCloseTo(r!.measuredVelocity.value, -1);
     expect(r!.lines).toBeUndefined();
   });
 

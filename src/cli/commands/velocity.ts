@@ -52,13 +52,19 @@ export interface VelocityReport {
     peakFwhmKmPerS: number;
     tonryDavisR: number;
     grid: CrossCorrelationResult['grid'];
+    /** The normalised CCF of the first pass against velocity (km/s), for plots. */
+    curve: { velocityKmPerS: number[]; correlation: number[] };
+    /** The Gaussian + constant fitted to the first pass's peak, on the same axis (for plots), or null. */
+    peakModel: CrossCorrelationResult['peak']['model'];
+    /** Velocity range of the points the peak model was fitted to, km/s. */
+    peakFitRangeKmPerS: readonly [number, number];
   };
 }
 
 const DEFAULT_SPECIES = ['H'];
 
-/** `H` → `H I`; `Fe` → `Fe I`, `Fe II`; `Fe II` or `Fe_II` → `Fe II`. */
-function expandSpecies(tokens: readonly string[]): string[] {
+/** `H` → `H I`; `Fe` → `Fe I`, `Fe II`; `Fe II` or `Fe_II` → `Fe II`. @throws {UsageError} `cli.unknown-species`. */
+export function expandSpecies(tokens: readonly string[]): string[] {
   const available = availableSpecies();
   const key = (s: string) => s.trim().replace(/[_\s]+/g, ' ').toLowerCase();
   const out: string[] = [];
@@ -261,6 +267,8 @@ air or vacuum, or --medium must.`,
       report.ccf = {
         template: templateName, templateVelocityKmPerS: r.templateVelocityKmPerS, uncertaintyMethod: r.uncertaintyMethod,
         uncertainties: r.uncertainties, peakHeight: r.peak.height, peakFwhmKmPerS: r.peak.fwhmKmPerS, tonryDavisR: r.peak.tonryDavisR, grid: r.grid,
+        curve: { velocityKmPerS: Array.from(r.ccf.velocityKmPerS), correlation: Array.from(r.ccf.correlation) },
+        peakModel: r.peak.model, peakFitRangeKmPerS: r.peak.fitRangeKmPerS,
       };
     }
 
