@@ -86,7 +86,8 @@ export function gratingFromArgs(args: ParsedArgs, pixels: number): GratingSetup 
   };
 }
 
-function hintFromArgs(args: ParsedArgs, grating: GratingSetup | null): WavelengthHint | undefined {
+/** The wavelength hint from the options (--range, --center with --dispersion, or the grating set-up), or undefined. */
+export function hintFromArgs(args: ParsedArgs, grating: GratingSetup | null): WavelengthHint | undefined {
   const accuracyAngstrom = numberOption(args, 'hint-accuracy');
   const range = listOption(args, 'range');
   const center = numberOption(args, 'center');

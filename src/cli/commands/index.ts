@@ -1,6 +1,7 @@
 import type { Command } from '../command.js';
 import { applyCommand } from './apply.js';
 import { barycentricCommand } from './barycentric.js';
+import { batchCommand } from './batch.js';
 import { calibrateCommand } from './calibrate.js';
 import { elementsCommand } from './elements.js';
 import { findCommand } from './find.js';
@@ -19,6 +20,7 @@ export const commands: readonly Command[] = [
   fitCommand,
   elementsCommand,
   velocityCommand,
+  batchCommand,
   barycentricCommand,
   periodogramCommand,
   orbitCommand,
