@@ -11,3 +11,4 @@ export {
   type ReportDocument,
   type ReportSection,
 } from './document.js';
+export { formatMeasured, formatNumber, formatProbability, formatSignificant, observationLabel, observationOf, UNCERTAINTY_SIGNIFICANT_DIGITS, type CellFormat } from './format.js';
