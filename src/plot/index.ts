@@ -4,7 +4,7 @@ export { OKABE_ITO, PLOT_THEME, vegaLiteConfig, type PlotTheme } from './theme.j
 export type { PlotOptions } from './common.js';
 export { textWidthPx } from './textWidth.js';
 export { placeLabels, type LabelAnchor, type PlacedLabel, type LabelPlacementOptions } from './labels.js';
-export { spectrumPlot, spectrumPlotData, type SpectrumPlotData, type SpectrumPlotOptions, type MarkedLine } from './spectrum.js';
+export { spectrumPlot, spectrumPlotData, type SpectrumPlotData, type SpectrumPlotOptions, type MarkedLine, type ShadedWindow } from './spectrum.js';
 export { lineFitPlot, type LineFitPlotData, type LineFitPlotOptions, type FitComponent, type FitCentre } from './lineFit.js';
 export {
   calibrationResidualPlot,
