@@ -24,3 +24,8 @@ export {
 } from './velocity.js';
 export { periodogramPlot, type PeriodogramPlotData, type PeriodogramPlotOptions, type FalseAlarmLevel } from './periodogram.js';
 export { renderSvg, compileVegaLite, prefixSvgIds, type RenderOptions, type CompiledPlot } from './render.js';
+export { plotSpectrum, plotFoundLines, type PlotSpectrumOptions, type PlotFoundLinesOptions } from './results/spectrum.js';
+export { plotLineFit, type PlotLineFitOptions } from './results/line-fit.js';
+export { plotCalibration, type PlotCalibrationOptions } from './results/calibration.js';
+export { plotVelocityCurve, plotPhaseFolded, plotPeriodogram, falseAlarmLevel, type PlotPeriodogramOptions } from './results/orbit.js';
+export { resultPlot, FOLD_ABOVE_CYCLES, type ResultPlot } from './results/index.js';
