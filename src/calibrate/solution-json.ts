@@ -9,7 +9,7 @@ import { InputError, UsageError } from '../errors.js';
 import type { ProvenanceEntry } from '../spectrum/provenance.js';
 import type { GratingSetup } from './grating.js';
 import type { CalibrationFailure } from './messages.js';
-import type { DispersionSolution, LineRejection, SolutionLine, SolutionMethod } from './solution.js';
+import type { DispersionSolution, CalibrationLineRejection, SolutionLine, SolutionMethod } from './solution.js';
 
 /** The `format` value of a solution file. */
 export const SOLUTION_FORMAT = 'lineshift-dispersion-solution';
@@ -79,7 +79,7 @@ function describe(v: unknown): string {
 
 const METHODS: readonly SolutionMethod[] = ['lamp', 'grating-equation', 'star-lines', 'interpolated'];
 const REASONS: readonly CalibrationFailure[] = ['no-lines-found', 'too-few-lines', 'no-pattern', 'few-identified', 'large-residuals'];
-const REJECTIONS: readonly LineRejection[] = ['sigma-clipped', 'saturated', 'blend', 'fit-failed', 'unidentified'];
+const REJECTIONS: readonly CalibrationLineRejection[] = ['sigma-clipped', 'saturated', 'blend', 'fit-failed', 'unidentified'];
 
 /**
  * Parses and checks a solution file's text.

@@ -15,7 +15,7 @@ import { derivativePolynomial, evaluatePolynomial, fitPolynomial, polynomialSigm
 export type SolutionMethod = 'lamp' | 'grating-equation' | 'star-lines' | 'interpolated';
 
 /** Why a line was not used in the solution. */
-export type LineRejection =
+export type CalibrationLineRejection =
   /** Clipped: its residual exceeded the clipping threshold. */
   | 'sigma-clipped'
   /** A flat-topped (saturated) line: its centre is unreliable. */
@@ -50,7 +50,7 @@ export interface SolutionLine {
   readonly resolvingPower: number | null;
   readonly used: boolean;
   /** Why not used (null when used). */
-  readonly rejection: LineRejection | null;
+  readonly rejection: CalibrationLineRejection | null;
 }
 
 /** Resolving power measured from the lines used: median and robust spread (1.4826 × MAD). */
@@ -204,7 +204,7 @@ export interface SolutionInputLine {
   readonly species?: string;
   readonly relativeIntensity?: number | null;
   /** A reason to keep the line out of the fit from the start. */
-  readonly exclude?: Exclude<LineRejection, 'sigma-clipped'> | null;
+  readonly exclude?: Exclude<CalibrationLineRejection, 'sigma-clipped'> | null;
 }
 
 /** The fitted part of a solution, before acceptance. */
@@ -258,7 +258,7 @@ export function fitDispersionSolution(lines: readonly SolutionInputLine[], optio
     const disp = derivativePolynomial(fit.coefficients, options.domain, l.pixel);
     const k = pos.get(i);
     const res = l.wavelengthAngstrom !== null ? l.wavelengthAngstrom - fitted : null;
-    let rejection: LineRejection | null = null;
+    let rejection: CalibrationLineRejection | null = null;
     let used = false;
     if (l.wavelengthAngstrom === null) rejection = 'unidentified';
     else if (l.exclude) rejection = l.exclude;

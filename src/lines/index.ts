@@ -3,3 +3,4 @@ export * from './continuum.js';
 export * from './linelist.js';
 export * from './snr.js';
 export * from './find.js';
+export * from './synthetic.js';

@@ -38,6 +38,27 @@ function fftRadix2(re: Float64Array, im: Float64Array, inverse: boolean): void {
   }
 }
 
+/**
+ * In-place complex FFT of a power-of-two length (radix-2 Cooley–Tukey, 1965): `forward`
+ * computes X[k] = Σₙ x[n]·e^{−2πikn/N}; `inverse` computes Σₖ X[k]·e^{+2πikn/N} WITHOUT the
+ * 1/N factor. O(N log N). For spectra of real sequences (cross-power spectra, Fourier
+ * interpolation and derivatives of a cross-correlation).
+ *
+ * @param re real parts (overwritten with the result).
+ * @param im imaginary parts (overwritten), the same power-of-two length as `re`.
+ * @param direction `forward` or `inverse`.
+ * @throws {UsageError} when the lengths differ or are not a power of two.
+ * @example
+ * const re = Float64Array.of(1, 0, 0, 0), im = new Float64Array(4);
+ * fftInPlace(re, im, 'forward'); // re = [1, 1, 1, 1], im = [0, 0, 0, 0]
+ */
+export function fftInPlace(re: Float64Array, im: Float64Array, direction: 'forward' | 'inverse'): void {
+  const n = re.length;
+  if (im.length !== n) throw new UsageError('fft.length-mismatch', `real and imaginary parts need equal lengths (got ${n} and ${im.length})`);
+  if (n === 0 || (n & (n - 1)) !== 0) throw new UsageError('fft.not-power-of-two', `FFT length must be a power of two (got ${n})`);
+  fftRadix2(re, im, direction === 'inverse');
+}
+
 /** The smallest power of two ≥ n. */
 export function nextPowerOfTwo(n: number): number {
   let p = 1;

@@ -7,3 +7,7 @@ export * from './site.js';
 export * from './barycentric.js';
 export * from './observation.js';
 export * from './photon-noise.js';
+export * from './calibration-error.js';
+export * from './ccf.js';
+export * from './combine.js';
+export * from './lines.js';

@@ -1,11 +1,10 @@
 import { resolve } from 'node:path';
 import { readSpectrum } from '../../io/read.js';
 import { Header } from '../../spectrum/header.js';
-import { formatDeclination, formatRightAscension, parseDeclination, parseLatitude, parseLongitude, parseRightAscension } from '../../velocity/coordinates.js';
-import { parseUtcTime } from '../../velocity/time.js';
-import { barycentricCorrectionFromHeader, type HeaderCorrection, type ObservationOverrides } from '../../velocity/observation.js';
-import { numberOption, stringOption, type Command } from '../command.js';
-import { UsageError } from '../../errors.js';
+import { formatDeclination, formatRightAscension } from '../../velocity/coordinates.js';
+import { barycentricCorrectionFromHeader, type HeaderCorrection } from '../../velocity/observation.js';
+import { numberOption, type Command } from '../command.js';
+import { OBSERVATION_OPTIONS, observationOverrides } from './observation-options.js';
 
 /** What `lineshift barycentric --json` prints. */
 export interface BarycentricReport {
@@ -93,47 +92,17 @@ and/or from the options, which override the header. --time is the exposure START
 the mid-point is --midpoint if given, else start + exposure/2. RA is degrees or hours
 (hh:mm:ss.s); Dec is degrees or ±dd:mm:ss; both ICRS/J2000. Longitude is east positive.`,
   options: [
-    { name: 'time', type: 'string', valueName: 'ISO', description: 'exposure start, UTC, e.g. 2024-03-05T21:14:07' },
-    { name: 'midpoint', type: 'string', valueName: 'ISO', description: 'exposure mid-point, UTC (overrides --time/--exptime)' },
-    { name: 'exptime', type: 'number', valueName: 'S', description: 'exposure time in seconds' },
-    { name: 'ra', type: 'string', valueName: 'DEG|HH:MM:SS', description: 'target right ascension (ICRS): degrees, or hours as hh:mm:ss.s' },
-    { name: 'dec', type: 'string', valueName: 'DEG|±DD:MM:SS', description: 'target declination (ICRS): degrees or ±dd:mm:ss.s' },
-    { name: 'lat', type: 'string', valueName: 'DEG', description: 'site latitude, degrees north (or ±dd:mm:ss)' },
-    { name: 'lon', type: 'string', valueName: 'DEG', description: 'site longitude, degrees EAST (or ±ddd:mm:ss)' },
-    { name: 'height', type: 'number', valueName: 'M', description: 'site height above the WGS 84 ellipsoid, metres' },
+    ...OBSERVATION_OPTIONS,
     { name: 'hdu', type: 'number', valueName: 'N', description: 'FITS HDU to read the header from (0-based)' },
-    { name: 'header-longitude', type: 'string', valueName: 'east|west', description: 'sign convention of longitude cards in the header (default east)' },
   ],
   positionals: { min: 0, max: 1, name: 'FILE' },
   async run(args, io) {
-    const overrides: ObservationOverrides = {};
-    const time = stringOption(args, 'time');
-    if (time !== undefined) overrides.start = parseUtcTime(time, { keyword: '--time' });
-    const midpoint = stringOption(args, 'midpoint');
-    if (midpoint !== undefined) overrides.midpoint = parseUtcTime(midpoint, { keyword: '--midpoint' });
-    const exptime = numberOption(args, 'exptime');
-    if (exptime !== undefined) overrides.exposureS = exptime;
-    const ra = stringOption(args, 'ra');
-    const dec = stringOption(args, 'dec');
-    if ((ra === undefined) !== (dec === undefined)) throw new UsageError('cli.missing-option', '--ra and --dec go together');
-    if (ra !== undefined && dec !== undefined) {
-      overrides.target = { raDeg: parseRightAscension(ra, { keyword: '--ra' }), decDeg: parseDeclination(dec, { keyword: '--dec' }) };
-    }
-    const lat = stringOption(args, 'lat');
-    if (lat !== undefined) overrides.latitudeDeg = parseLatitude(lat, { keyword: '--lat' });
-    const lon = stringOption(args, 'lon');
-    if (lon !== undefined) overrides.longitudeDeg = parseLongitude(lon, { keyword: '--lon' });
-    const height = numberOption(args, 'height');
-    if (height !== undefined) overrides.heightM = height;
-    const convention = stringOption(args, 'header-longitude');
-    if (convention !== undefined && convention !== 'east' && convention !== 'west') {
-      throw new UsageError('cli.bad-choice', `--header-longitude must be east or west, got "${convention}"`);
-    }
+    const { overrides, headerLongitude } = observationOverrides(args);
     const file = args.positionals[0];
     const hdu = numberOption(args, 'hdu');
     const header = file === undefined ? Header.empty() : readSpectrum(resolve(io.cwd, file), { hdu, logger: io.logger }).header;
     const result = barycentricCorrectionFromHeader(header, overrides, {
-      file, hdu, logger: io.logger, headerLongitude: convention as 'east' | 'west' | undefined,
+      file, hdu, logger: io.logger, headerLongitude,
     });
     const report = barycentricReport(result, file ?? null);
     io.stdout(args.json ? JSON.stringify(report) + '\n' : describe(report));
