@@ -28,7 +28,8 @@ export interface MimeBundle {
 /**
  * What {@link mimeBundle} and `display` accept: a Vega-Lite spec, a {@link Table}, a
  * text, or a library result (spectrum, line fit, found lines, continuum, identification,
- * dispersion solution, velocity table, periodogram, orbit fit).
+ * dispersion solution, velocity from lines or by cross-correlation, velocity table,
+ * periodogram, orbit fit).
  */
 export type Displayable = VegaLiteSpec | Table | string | LibraryResult;
 
@@ -143,7 +144,7 @@ export async function mimeBundle(value: Displayable, options: BundleOptions = {}
       ? resultBundle(summary, { spec: plot.spec, svg: await renderSvg(plot.spec, options) })
       : resultBundle(summary, undefined, plot.note);
   }
-  throw new UsageError('notebook.not-displayable', 'display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }), a string, or a lineshift result (spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity table, periodogram, orbit fit)');
+  throw new UsageError('notebook.not-displayable', 'display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }), a string, or a lineshift result (spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity from lines or cross-correlation, velocity table, periodogram, orbit fit)');
 }
 
 /** One line of text for a plot: its title and subtitle. */

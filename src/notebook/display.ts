@@ -97,7 +97,7 @@ export function kernelChannel(): KernelChannel | undefined {
  *
  * @param value a Vega-Lite spec, a {@link Table}, a string, or a library result (a
  *   spectrum, line fit, found lines, continuum, identification, dispersion solution,
- *   velocity table, periodogram or orbit fit).
+ *   velocity from lines or by cross-correlation, velocity table, periodogram or orbit fit).
  * @param options the spectrum or velocity table a result came from (for its plot and
  *   titles: `{ spectrum }` for found lines, a continuum or an identification, `{ table }`
  *   for an orbit fit), logger, SVG id prefix, or a `send` function replacing the kernel.

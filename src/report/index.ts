@@ -19,4 +19,5 @@ export { summarizeLineFit, summarizeFoundLines, fitQuality } from './results/lin
 export { summarizeIdentification } from './results/elements.js';
 export { summarizeSolution } from './results/calibration.js';
 export { summarizeVelocityTable, summarizePeriodogram, summarizeOrbitFit } from './results/orbit.js';
+export { summarizeCrossCorrelation, summarizeLineVelocities } from './results/velocity.js';
 export { summarizeResult, describeResult } from './results/index.js';

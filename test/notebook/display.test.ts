@@ -55,7 +55,7 @@ describe('mimeBundle', () => {
   it('passes text through and refuses anything else', async () => {
     expect(await mimeBundle('hello')).toEqual({ 'text/plain': 'hello' });
     await expect(mimeBundle({ a: 1 } as never)).rejects.toThrow(UsageError);
-    await expect(mimeBundle(42 as never)).rejects.toThrow('display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }), a string, or a lineshift result (spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity table, periodogram, orbit fit)');
+    await expect(mimeBundle(42 as never)).rejects.toThrow('display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }), a string, or a lineshift result (spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity from lines or cross-correlation, velocity table, periodogram, orbit fit)');
   });
 
   it('plotBundle is pure: same input, same bundle', () => {
@@ -164,7 +164,7 @@ describe('library results', () => {
   it('every kind of result makes a bundle with a summary', async () => {
     for (const [value, context] of [
       [r.star, {}], [r.starIdentification, { spectrum: r.star }], [r.sampleSolution, {}], [r.lvac7Table, {}],
-      [r.lvac7Periodogram, { table: r.lvac7Table }], [r.lvac7Orbit, { table: r.lvac7Table }],
+      [r.lvac7Periodogram, { table: r.lvac7Table }], [r.lvac7Orbit, { table: r.lvac7Table }], [r.ccf, {}], [r.lineVelocities, { spectrum: r.velocityStar }],
     ] as const) {
       const bundle = await mimeBundle(value, context);
       expect(bundle['text/html']).toMatch(/^<div class="lineshift-result"><p><strong>/);

@@ -9,7 +9,8 @@ import { spectrumPlot, spectrumPlotData } from '../../src/plot/spectrum.js';
 import { phaseFoldedVelocityPlot, velocityCurvePlot } from '../../src/plot/velocity.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
 import { deepFreeze, expectValidSpec, forSnapshot } from './contract.js';
-import { builderCases, calibrationInput, crossCorrelationInput, lineFitInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
+import { builderCases, calibrationInput, crossCorrelationInput, lineFitInput, lineVelocityInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
+import { lineVelocityPlot } from '../../src/plot/lineVelocity.js';
 
 type Rows = Record<string, unknown>[];
 const datasets = (spec: VegaLiteSpec) => spec.datasets as Record<string, Rows>;
@@ -360,5 +361,27 @@ describe('options the result plots use', () => {
     const spec = periodogramPlot({ ...periodogramInput(), bestFrequencyPerDay: 0.4 }, { peakName: 'Highest peak' });
     expect(strings(spec)).toContain('Highest peak');
     expect(strings(spec)).not.toContain('Chosen peak');
+  });
+});
+
+describe('lineVelocityPlot', () => {
+  it('draws used and rejected lines against their rest wavelength and the combined velocity with its band', () => {
+    const spec = lineVelocityPlot(lineVelocityInput());
+    const rows = datasets(spec).lines;
+    expect(rows.map((r) => r.x)).toEqual([4861.33, 5183.6, 5269.54, 6562.8]);
+    expect(rows.map((r) => r.status)).toEqual(['used', 'used', 'rejected', 'used']);
+    expect(rows[3]).toMatchObject({ low: null, high: null });
+    expect(subtitle(spec)).toBe('v = 12.40 ± 0.60 km/s from 3 of 4 lines');
+    const band = (spec.layer as { mark: { type: string }; data?: { values?: unknown[] } }[]).find((l) => l.mark.type === 'rect');
+    expect(band?.data?.values).toEqual([{ low: 12.4 - 0.6, high: 12.4 + 0.6 }]);
+    expect(strings(spec)).toContain('Rest wavelength (Å, air)');
+  });
+
+  it('refuses a list without any finite line, and does not modify its input', () => {
+    expect(() => lineVelocityPlot({ lines: [{ restWavelengthAngstrom: 5000, velocityKmPerS: NaN, used: false }] }))
+      .toThrow('line velocity plot: no line has a finite wavelength and velocity, nothing to plot');
+    const input = deepFreeze(lineVelocityInput());
+    lineVelocityPlot(input);
+    expect(JSON.stringify(input)).toBe(JSON.stringify(lineVelocityInput()));
   });
 });

@@ -25,6 +25,11 @@ import { deriveSpectrum } from '../../src/spectrum/spectrum.js';
 import { provenanceEntry } from '../../src/spectrum/provenance.js';
 import type { Spectrum } from '../../src/spectrum/spectrum.js';
 import { makeLampSpectrum, STANDARD_CASES } from '../calibrate/synthetic-lamp.js';
+import { makeStar } from '../helpers/star.js';
+import { crossCorrelationVelocity, type CrossCorrelationResult } from '../../src/velocity/ccf.js';
+import { velocityFromLines, type LineVelocityResult } from '../../src/velocity/lines.js';
+import { createSpectrum } from '../../src/spectrum/spectrum.js';
+import { plotCrossCorrelation, plotLineVelocities } from '../../src/plot/results/velocity.js';
 import { syntheticSpectrum } from '../elements/synthetic-spectrum.js';
 import { SCENARIOS } from '../elements/simulate.js';
 import { starSpectrum } from '../helpers/synthetic.js';
@@ -48,6 +53,9 @@ export interface GalleryResults {
   readonly lvac7Periodogram: Periodogram;
   readonly longTable: VelocityTable;
   readonly longOrbit: OrbitFit;
+  readonly velocityStar: Spectrum;
+  readonly ccf: CrossCorrelationResult;
+  readonly lineVelocities: LineVelocityResult;
 }
 
 /**
@@ -111,9 +119,21 @@ export function galleryResults(): GalleryResults {
   const lvac7Periodogram = velocityPeriodogram(lvac7Table, { minPeriodDays: 1 });
   const longTable = longBaselineVelocities();
   const longOrbit = fitOrbit(longTable);
+
+  // LVAC-7 at +37.9 km/s near Hβ and Mg b (R = 5000, S/N ≈ 100), against a noise-free copy at rest.
+  const starOptions = {
+    lo: 4800, hi: 5900, n: 2000, resolvingPower: 5000, velocityKmPerS: 37.9, peakCounts: 10000, species: ['H I', 'Fe I', 'Mg I'], perSpecies: 8,
+    header: Header.from([{ keyword: 'OBJECT', value: 'LVAC-7' }, { keyword: 'DATE-OBS', value: '2026-05-20T02:10:00' }]),
+  };
+  const velocityStar = makeStar(starOptions).synthetic.spectrum;
+  const rest = makeStar({ ...starOptions, velocityKmPerS: 0, seed: 2 }).synthetic;
+  const template = createSpectrum({ wavelength: rest.spectrum.wavelength, flux: rest.model, uncertainty: rest.sigma!, medium: rest.spectrum.medium });
+  const ccf = crossCorrelationVelocity(velocityStar, template);
+  const lineVelocities = velocityFromLines(velocityStar, { species: ['H I', 'Fe I', 'Mg I'], resolvingPower: 5000 });
   cached = {
     star, found, halpha, starIdentification, blendSpectrum, blend, coolStar, coolIdentification,
     sampleSolution, syntheticSolution, lvac7Table, lvac7Orbit, lvac7Periodogram, longTable, longOrbit,
+    velocityStar, ccf, lineVelocities,
   };
   return cached;
 }
@@ -136,5 +156,7 @@ export function resultGalleryPlots(r: GalleryResults = galleryResults()): Record
     'result-phase-folded': plotPhaseFolded(r.lvac7Table, r.lvac7Orbit),
     'result-phase-folded-long': plotPhaseFolded(r.longTable, r.longOrbit),
     'result-periodogram': plotPeriodogram(r.lvac7Periodogram, { table: r.lvac7Table }),
+    'result-cross-correlation': plotCrossCorrelation(r.ccf, { spectrum: r.velocityStar }),
+    'result-line-velocities': plotLineVelocities(r.lineVelocities, { spectrum: r.velocityStar }),
   };
 }

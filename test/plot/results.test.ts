@@ -15,7 +15,10 @@ import { falseAlarmLevel, plotPeriodogram, plotPhaseFolded, plotVelocityCurve } 
 import { plotFoundLines, plotSpectrum } from '../../src/plot/results/spectrum.js';
 import type { VegaLiteSpec } from '../../src/plot/spec.js';
 import { PLOT_THEME } from '../../src/plot/theme.js';
+import { formatMeasured, formatSignificant } from '../../src/report/format.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
+import { crossCorrelationVelocity } from '../../src/velocity/ccf.js';
+import { plotCrossCorrelation, plotLineVelocities } from '../../src/plot/results/velocity.js';
 import { expectValidSpec, forSnapshot } from './contract.js';
 import { galleryResults, resultGalleryPlots } from './result-fixtures.js';
 
@@ -36,7 +39,7 @@ describe('every plot of a result', () => {
   });
 
   it('leaves every result as it was', () => {
-    const inputs = [r.star, r.found, r.halpha, r.starIdentification, r.sampleSolution, r.lvac7Table, r.lvac7Orbit, r.lvac7Periodogram];
+    const inputs = [r.star, r.found, r.halpha, r.starIdentification, r.sampleSolution, r.lvac7Table, r.lvac7Orbit, r.lvac7Periodogram, r.ccf, r.lineVelocities];
     const before = inputs.map(fingerprint);
     resultGalleryPlots(r);
     expect(inputs.map(fingerprint)).toEqual(before);
@@ -247,5 +250,50 @@ describe('resultPlot', () => {
     expect(resultPlot(r.lvac7Orbit, { table: r.lvac7Table }).spec).toStrictEqual(plotVelocityCurve(r.lvac7Table, r.lvac7Orbit));
     expect(resultPlot(r.longOrbit, { table: r.longTable }).spec).toStrictEqual(plotPhaseFolded(r.longTable, r.longOrbit));
     expect(resultPlot(r.halpha, { spectrum: r.star }).spec).toStrictEqual(plotLineFit(r.halpha, { spectrum: r.star }));
+    expect(resultPlot(r.ccf).spec).toStrictEqual(plotCrossCorrelation(r.ccf));
+    expect(resultPlot(r.lineVelocities, { spectrum: r.velocityStar }).spec).toStrictEqual(plotLineVelocities(r.lineVelocities, { spectrum: r.velocityStar }));
+  });
+});
+
+describe('velocity plots', () => {
+  it('plotCrossCorrelation draws the CCF, the fitted Gaussian + constant and the measured velocity ± σ', () => {
+    const spec = plotCrossCorrelation(r.ccf, { spectrum: r.velocityStar });
+    const d = datasets(spec);
+    expect(d.correlation.map((row) => row.x)).toEqual(Array.from(r.ccf.ccf.velocityKmPerS));
+    const m = r.ccf.peak.model!;
+    for (const row of d.peakModel) {
+      expect(row.y).toBeCloseTo(m.baseline + m.amplitude * Math.exp(-0.5 * (((row.x as number) - m.centerKmPerS) / m.sigmaKmPerS) ** 2), 12);
+      expect(row.x as number).toBeGreaterThanOrEqual(r.ccf.peak.fitRangeKmPerS[0]);
+      expect(row.x as number).toBeLessThanOrEqual(r.ccf.peak.fitRangeKmPerS[1]);
+    }
+    const band = (spec.layer as { mark: { type: string }; data?: { values?: Rows } }[]).find((l) => l.mark.type === 'rect')!.data!.values![0];
+    expect(band).toEqual({ low: r.ccf.velocity.value - r.ccf.velocity.uncertainty, high: r.ccf.velocity.value + r.ccf.velocity.uncertainty });
+    expect(title(spec).text).toBe('LVAC-7: cross-correlation');
+    expect(subtitleText(spec)).toBe(`2026-05-20 02:10:00 UTC\nv = ${formatMeasured(r.ccf.velocity.value, r.ccf.velocity.uncertainty, 'km/s')} (propagated) · peak height ${formatSignificant(r.ccf.peak.height, 3)} · Tonry–Davis r = ${formatSignificant(r.ccf.peak.tonryDavisR, 3)}`);
+    expect(strings(spec)).toContain("Line-of-sight velocity, observer's frame (km/s)");
+    // The synthetic star moves at +37.9 km/s (invented truth): within 3σ.
+    expect(Math.abs(r.ccf.velocity.value - 37.9)).toBeLessThan(3 * r.ccf.velocity.uncertainty);
+  });
+
+  it('plotCrossCorrelation of a CCF without a velocity says why', async () => {
+    const edge = crossCorrelationVelocity(r.velocityStar, r.velocityStar, { velocityRangeKmPerS: { min: 50, max: 400 } });
+    expect(edge.converged).toBe(false);
+    const spec = plotCrossCorrelation(edge);
+    expect(title(spec).text).toBe('Cross-correlation (no velocity)');
+    expect(subtitleText(spec)).toBe(`no velocity (${edge.reason}): ${edge.message}`);
+    await expectValidSpec(spec);
+  });
+
+  it('plotLineVelocities draws every line with a velocity and the combined value', () => {
+    const lv = r.lineVelocities;
+    const spec = plotLineVelocities(lv, { spectrum: r.velocityStar });
+    const rows = datasets(spec).lines;
+    const fitted = lv.lines.filter((l) => l.velocityKmPerS !== null);
+    expect(rows.map((row) => row.y)).toEqual(fitted.map((l) => l.velocityKmPerS!.value));
+    expect(rows.map((row) => row.used)).toEqual(fitted.map((l) => l.status === 'used'));
+    expect(rows.filter((row) => row.used)).toHaveLength(lv.linesUsed);
+    const rule = (spec.layer as { mark: { type: string }; data?: { values?: Rows } }[]).find((l) => l.mark.type === 'rule' && l.data?.values)!;
+    expect(rule.data!.values).toEqual([{ y: lv.velocity.value }]);
+    expect(subtitleText(spec)).toContain(`${lv.lines.length - fitted.length} lines without a velocity not shown`);
   });
 });

@@ -14,6 +14,7 @@ import { summarizeOrbitFit, summarizePeriodogram, summarizeVelocityTable } from 
 import { summarizeSolution } from '../../src/report/results/calibration.js';
 import { summarizeContinuum, summarizeSpectrum } from '../../src/report/results/spectrum.js';
 import { SUMMARY_MAX_ROWS, summaryText } from '../../src/report/results/summary.js';
+import { summarizeCrossCorrelation, summarizeLineVelocities } from '../../src/report/results/velocity.js';
 import { tableText } from '../../src/report/table.js';
 import { repoPath } from '../helpers/paths.js';
 import { galleryResults } from '../plot/result-fixtures.js';
@@ -33,6 +34,8 @@ describe('resultKind', () => {
     expect(resultKind(r.lvac7Table)).toBe('velocity-table');
     expect(resultKind(r.lvac7Periodogram)).toBe('periodogram');
     expect(resultKind(r.lvac7Orbit)).toBe('orbit-fit');
+    expect(resultKind(r.ccf)).toBe('cross-correlation');
+    expect(resultKind(r.lineVelocities)).toBe('line-velocities');
     for (const other of [spectrumPlot({ wavelengthAngstrom: [1, 2], flux: [1, 2] }), { columns: [], rows: [] }, 'text', {}, null, [], 42]) {
       expect(resultKind(other)).toBeUndefined();
     }
@@ -127,6 +130,17 @@ describe('summaries of real results', () => {
     expect(s.lines[0]).toMatch(/^Present: .*Fe I/);
   });
 
+  it('velocities: the value ± uncertainty in the observer\'s frame, the estimates, every line with its status', () => {
+    const c = summarizeCrossCorrelation(r.ccf, { spectrum: r.velocityStar });
+    expect(c.title).toBe('Cross-correlation velocity: LVAC-7, 2026-05-20 02:10:00 UTC');
+    expect(c.lines[0]).toBe(`v = ${formatMeasured(r.ccf.velocity.value, r.ccf.velocity.uncertainty, 'km/s')} (observer's frame, no barycentric correction; uncertainty propagated, relativistic Doppler formula).`);
+    expect(c.tables[0].rows[0].value).toBe(r.ccf.velocity);
+    const l = summarizeLineVelocities(r.lineVelocities);
+    expect(l.lines[0]).toBe(`v = ${formatMeasured(r.lineVelocities.velocity.value, r.lineVelocities.velocity.uncertainty, 'km/s')} (observer's frame, no barycentric correction) from ${r.lineVelocities.linesUsed} of ${r.lineVelocities.lines.length} lines.`);
+    expect(l.tables[0].rows.map((row) => row.status)).toEqual(r.lineVelocities.lines.map((line) => (line.status === 'used' ? 'used' : line.note || line.reason)));
+    expect(l.tables[0].rows[0].velocity).toBe(r.lineVelocities.lines[0].velocityKmPerS);
+  });
+
   it('spectrum and continuum', () => {
     const s = summarizeSpectrum(r.star);
     expect(s.title).toBe('Spectrum: LVAC-7, 2026-05-14 03:12:45 UTC');
@@ -136,7 +150,7 @@ describe('summaries of real results', () => {
   });
 
   it('summarizeResult dispatches, describeResult gives the text with the tables, and nothing is modified', () => {
-    const all = [r.star, r.halpha, r.found, r.starIdentification, r.sampleSolution, r.lvac7Table, r.lvac7Periodogram, r.lvac7Orbit];
+    const all = [r.star, r.halpha, r.found, r.starIdentification, r.sampleSolution, r.lvac7Table, r.lvac7Periodogram, r.lvac7Orbit, r.ccf, r.lineVelocities];
     for (const value of all) {
       const before = fingerprint(value);
       const s = summarizeResult(value, { spectrum: r.star });

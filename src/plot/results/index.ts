@@ -13,11 +13,14 @@ import type { VelocityTable } from '../../orbit/table.js';
 import { resultKind, type LibraryResult } from '../../report/results/kind.js';
 import type { ResultContext } from '../../report/results/summary.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
+import type { CrossCorrelationResult } from '../../velocity/ccf.js';
+import type { LineVelocityResult } from '../../velocity/lines.js';
 import type { VegaLiteSpec } from '../spec.js';
 import { plotCalibration } from './calibration.js';
 import { plotLineFit } from './line-fit.js';
 import { plotPeriodogram, plotPhaseFolded, plotVelocityCurve } from './orbit.js';
 import { plotFoundLines, plotSpectrum } from './spectrum.js';
+import { plotCrossCorrelation, plotLineVelocities } from './velocity.js';
 
 /** The plot of a result, or why there is none. */
 export interface ResultPlot {
@@ -37,7 +40,8 @@ export const FOLD_ABOVE_CYCLES = 20;
  * velocity table → {@link plotVelocityCurve}; a periodogram → {@link plotPeriodogram}
  * (false-alarm levels with `context.table`); an orbit fit → the velocities with the orbit
  * (needs `context.table`), against time, or folded on the period when the data span more
- * than {@link FOLD_ABOVE_CYCLES} periods.
+ * than {@link FOLD_ABOVE_CYCLES} periods; a cross-correlation → {@link plotCrossCorrelation};
+ * a velocity from lines → {@link plotLineVelocities}.
  *
  * @param value a library result; not modified.
  * @param context the spectrum or velocity table it came from.
@@ -81,6 +85,12 @@ export function resultPlot(value: LibraryResult, context: ResultContext = {}): R
       let lo = Infinity, hi = -Infinity;
       for (const t of table.bjdTdb) { lo = Math.min(lo, t); hi = Math.max(hi, t); }
       return (hi - lo) / fit.periodDays.value > FOLD_ABOVE_CYCLES ? { spec: plotPhaseFolded(table, fit) } : { spec: plotVelocityCurve(table, fit) };
+    }
+    case 'cross-correlation':
+      return { spec: plotCrossCorrelation(value as CrossCorrelationResult, { spectrum }) };
+    case 'line-velocities': {
+      const lines = value as LineVelocityResult;
+      return lines.lines.some((l) => l.velocityKmPerS !== null) ? { spec: plotLineVelocities(lines, { spectrum }) } : { note: 'no plot: no line could be fitted' };
     }
     default:
       return { note: 'not a lineshift result' };

@@ -11,6 +11,8 @@ import type { OrbitFit } from '../../orbit/orbit-fit.js';
 import type { Periodogram } from '../../orbit/periodogram.js';
 import type { VelocityTable } from '../../orbit/table.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
+import type { CrossCorrelationResult } from '../../velocity/ccf.js';
+import type { LineVelocityResult } from '../../velocity/lines.js';
 import { UsageError } from '../../errors.js';
 import { summarizeSolution } from './calibration.js';
 import { summarizeIdentification } from './elements.js';
@@ -19,10 +21,12 @@ import { summarizeFoundLines, summarizeLineFit } from './line-fit.js';
 import { summarizeOrbitFit, summarizePeriodogram, summarizeVelocityTable } from './orbit.js';
 import { summarizeContinuum, summarizeSpectrum } from './spectrum.js';
 import { summaryText, type ResultContext, type ResultSummary } from './summary.js';
+import { summarizeCrossCorrelation, summarizeLineVelocities } from './velocity.js';
 
 /**
  * The summary of any library result (spectrum, line fit, found lines, continuum,
- * identification, dispersion solution, velocity table, periodogram, orbit fit), chosen
+ * identification, dispersion solution, velocity from lines or by cross-correlation,
+ * velocity table, periodogram, orbit fit), chosen
  * by {@link resultKind}.
  *
  * @param value a library result; not modified.
@@ -42,8 +46,10 @@ export function summarizeResult(value: LibraryResult, context: ResultContext = {
     case 'velocity-table': return summarizeVelocityTable(value as VelocityTable);
     case 'periodogram': return summarizePeriodogram(value as Periodogram);
     case 'orbit-fit': return summarizeOrbitFit(value as OrbitFit);
+    case 'cross-correlation': return summarizeCrossCorrelation(value as CrossCorrelationResult, context);
+    case 'line-velocities': return summarizeLineVelocities(value as LineVelocityResult, context);
     default:
-      throw new UsageError('report.not-a-result', 'this value is not a lineshift result (a spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity table, periodogram or orbit fit)');
+      throw new UsageError('report.not-a-result', 'this value is not a lineshift result (a spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity from lines or cross-correlation, velocity table, periodogram or orbit fit)');
   }
 }
 

@@ -12,6 +12,8 @@ import type { OrbitFit } from '../../orbit/orbit-fit.js';
 import type { Periodogram } from '../../orbit/periodogram.js';
 import type { VelocityTable } from '../../orbit/table.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
+import type { CrossCorrelationResult } from '../../velocity/ccf.js';
+import type { LineVelocityResult } from '../../velocity/lines.js';
 
 /** Every result value the summaries, plots and notebook display understand. */
 export type LibraryResult =
@@ -23,7 +25,9 @@ export type LibraryResult =
   | DispersionSolution
   | VelocityTable
   | Periodogram
-  | OrbitFit;
+  | OrbitFit
+  | CrossCorrelationResult
+  | LineVelocityResult;
 
 /** The name of each kind of {@link LibraryResult}. */
 export type ResultKind =
@@ -35,7 +39,9 @@ export type ResultKind =
   | 'dispersion-solution'
   | 'velocity-table'
   | 'periodogram'
-  | 'orbit-fit';
+  | 'orbit-fit'
+  | 'cross-correlation'
+  | 'line-velocities';
 
 type Fields = Record<string, unknown>;
 
@@ -53,6 +59,8 @@ const isNumbers = (v: unknown): boolean => v instanceof Float64Array;
 export function resultKind(value: unknown): ResultKind | undefined {
   if (!isObject(value)) return undefined;
   const v = value;
+  if (v.method === 'cross-correlation' && isObject(v.ccf) && isObject(v.velocity)) return 'cross-correlation';
+  if (v.method === 'lines' && isObject(v.velocity) && Array.isArray(v.lines) && typeof v.linesUsed === 'number') return 'line-velocities';
   if (isNumbers(v.wavelength) && isNumbers(v.flux) && isObject(v.header) && typeof v.unit === 'string') return 'spectrum';
   if (Array.isArray(v.components) && Array.isArray(v.parameters) && isObject(v.curve) && typeof v.profile === 'string') return 'line-fit';
   if (Array.isArray(v.windows) && Array.isArray(v.lines) && typeof v.noiseSource === 'string') return 'found-lines';
