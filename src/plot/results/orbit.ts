@@ -118,6 +118,9 @@ const DEFAULT_FALSE_ALARM_PROBABILITIES: readonly number[] = [0.1, 0.01, 0.001];
  * @param table the velocities it was computed from.
  * @param probability false-alarm probability, 0 < p < 1.
  * @returns the power; NaN when even z = 1 does not reach so small a probability.
+ * @example
+ * const z = falseAlarmLevel(velocityPeriodogram(table), table, 0.01);
+ * baluevFalseAlarmProbability(z, table.bjdTdb, table.uncertaintyKmPerS, 2).baluev; // 0.01 (minimum period 0.5 d: f_max = 2)
  */
 export function falseAlarmLevel(periodogram: Periodogram, table: VelocityTable, probability: number): number {
   const fMax = 1 / periodogram.minPeriodDays;
