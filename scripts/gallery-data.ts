@@ -7,19 +7,13 @@ import { spectrumPlot } from '../src/plot/spectrum.js';
 import { lineFitPlot } from '../src/plot/lineFit.js';
 import { calibrationResidualPlot } from '../src/plot/calibration.js';
 import { crossCorrelationPlot } from '../src/plot/crossCorrelation.js';
+import { uniformGenerator } from '../src/math/random.js';
 import { periodogramPlot } from '../src/plot/periodogram.js';
 import { phaseFoldedVelocityPlot, velocityCurvePlot } from '../src/plot/velocity.js';
 
 /** Small seeded generator (mulberry32) so the gallery is the same on every run. */
 export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  return uniformGenerator(seed);
 }
 
 /** Standard normal deviates from a uniform generator (Box–Muller). */

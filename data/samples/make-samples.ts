@@ -17,6 +17,7 @@ import { writeFitsSpectrum } from '../../src/io/fits/write.js';
 import { Header, type HeaderCard } from '../../src/spectrum/header.js';
 import { provenanceEntry } from '../../src/spectrum/provenance.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
+import { uniformGenerator } from '../../src/math/random.js';
 
 /** Air wavelengths (Å) and relative strengths of lamp lines, NIST ASD (shared reference line lists Ne_I.csv, Ar_I.csv). */
 const LAMP_LINES: readonly [number, number][] = [
@@ -30,14 +31,7 @@ const H_ALPHA = 6562.795;
 
 /** Small seeded generator (mulberry32) and Gaussian deviates (Box–Muller). */
 function random(seed: number): { uniform(): number; normal(): number } {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const uniform = uniformGenerator(seed);
   return { uniform, normal: () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform()) };
 }
 

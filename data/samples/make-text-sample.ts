@@ -16,6 +16,7 @@ import { SPEED_OF_LIGHT_KM_PER_S } from '../../src/spectrum/constants.js';
 import { Header } from '../../src/spectrum/header.js';
 import { provenanceEntry } from '../../src/spectrum/provenance.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
+import { uniformGenerator } from '../../src/math/random.js';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const scenario = JSON.parse(readFileSync(join(here, '..', 'demo', 'scenario.json'), 'utf8')) as {
@@ -35,14 +36,7 @@ const LINE_HALF_WIDTH_ANGSTROM = 12;
 
 /** mulberry32, a small public-domain generator: uniform numbers in [0, 1). */
 function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  return uniformGenerator(seed);
 }
 
 function gaussian(rand: () => number): number {

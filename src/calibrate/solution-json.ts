@@ -3,8 +3,9 @@
  * "formatVersion": 1, …the DispersionSolution fields… }` (see DEVELOPERS.md, "Wavelength
  * calibration"). Reading checks every field and names the JSON path of the first bad one.
  */
-import { closeSync, existsSync, fsyncSync, openSync, readFileSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, readFileSync, statSync } from 'node:fs';
+import { writeFileAtomic } from '../io/atomic-write.js';
+import { resolve } from 'node:path';
 import { InputError, UsageError } from '../errors.js';
 import type { ProvenanceEntry } from '../spectrum/provenance.js';
 import type { GratingSetup } from './grating.js';
@@ -217,19 +218,5 @@ export function writeSolution(path: string, solution: DispersionSolution, protec
   if (existsSync(target) && statSync(target).isDirectory()) throw new UsageError('calibrate.output-is-folder', 'is a folder; give a file name for the solution', { file: path });
   if (protect.some((p) => resolve(p) === target)) throw new UsageError('calibrate.overwrite-input', 'is an input file; lineshift never overwrites its input, so write to another file', { file: path });
   const bytes = Buffer.from(solutionToJson(solution), 'utf8');
-  const temporary = join(dirname(target), `.${basename(target)}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`);
-  let fd: number | undefined;
-  try {
-    fd = openSync(temporary, 'wx');
-    let written = 0;
-    while (written < bytes.length) written += writeSync(fd, bytes, written, bytes.length - written);
-    fsyncSync(fd);
-    closeSync(fd);
-    fd = undefined;
-    renameSync(temporary, target);
-  } catch (e) {
-    if (fd !== undefined) closeSync(fd);
-    try { unlinkSync(temporary); } catch { /* already gone */ }
-    throw e;
-  }
+  writeFileAtomic(target, bytes);
 }

@@ -7,14 +7,13 @@
  */
 import { createRequire } from 'node:module';
 import { silentLogger, type Logger } from '../logger.js';
-import type { RenderOptions } from '../plot/render.js';
-import { mimeBundle, type Displayable, type MimeBundle } from './bundle.js';
+import { displayMessages, mimeBundle, type BundleOptions, type Displayable, type MimeBundle } from './bundle.js';
 
 /** Options of {@link display}. */
-export interface DisplayOptions extends RenderOptions {
+export interface DisplayOptions extends BundleOptions {
   /** Receives `notebook.no-kernel` when no notebook kernel is found, and vega warnings. Default: silent. */
   logger?: Logger;
-  /** Sends the bundle instead of the kernel (for tests, or another front end). */
+  /** Sends each display message's bundle instead of the kernel (for tests, or another front end). */
   send?: (bundle: MimeBundle) => void;
 }
 
@@ -84,24 +83,32 @@ export function kernelChannel(): KernelChannel | undefined {
 }
 
 /**
- * Shows a plot, a table or a text in the notebook: builds its {@link mimeBundle} (a plot
- * gets its Vega-Lite spec, an SVG rendered in Node and a text line; a table gets escaped
- * HTML and aligned text) and sends it to the tslab kernel as one display message, so
- * JupyterLab shows the live plot and other viewers the SVG. Outside a notebook it sends
- * nothing and tells the logger (`notebook.no-kernel`).
+ * Shows a plot, a table, a text or a library result in the notebook: builds its
+ * {@link mimeBundle} (a plot gets its Vega-Lite spec, an SVG rendered in Node and a text
+ * line; a table gets escaped HTML and aligned text; a result gets its summary and tables
+ * as HTML and text, and its plot) and sends it to the tslab kernel, so JupyterLab shows
+ * the live plot and other viewers the SVG. A result with a plot is sent as two display
+ * messages, the tables then the plot ({@link displayMessages}): a front end shows only
+ * one representation per message. Outside a notebook it sends nothing and tells the
+ * logger (`notebook.no-kernel`).
  *
  * Await it (`await display(spec)`), so that the output lands in the cell that made it.
  * It returns nothing, so the cell does not also print the bundle as its value.
  *
- * @param value a Vega-Lite spec, a {@link Table} or a string.
- * @param options logger, SVG id prefix, or a `send` function replacing the kernel.
+ * @param value a Vega-Lite spec, a {@link Table}, a string, or a library result (a
+ *   spectrum, line fit, found lines, continuum, identification, dispersion solution,
+ *   velocity from lines or by cross-correlation, velocity table, periodogram or orbit fit).
+ * @param options the spectrum or velocity table a result came from (for its plot and
+ *   titles: `{ spectrum }` for found lines, a continuum or an identification, `{ table }`
+ *   for an orbit fit), logger, SVG id prefix, or a `send` function replacing the kernel.
  * @throws {UsageError} `notebook.not-displayable` for anything else.
  * @example await display(spectrumPlot(spectrumPlotData(spectrum)));
+ * @example await display(fitLine(star, { centerAngstrom: 6563 }), { spectrum: star });
  */
 export async function display(value: Displayable, options: DisplayOptions = {}): Promise<void> {
-  const bundle = await mimeBundle(value, options);
+  const messages = displayMessages(await mimeBundle(value, options));
   if (options.send) {
-    options.send(bundle);
+    for (const m of messages) options.send(m);
     return;
   }
   const channel = kernelChannel();
@@ -109,5 +116,5 @@ export async function display(value: Displayable, options: DisplayOptions = {}):
     (options.logger ?? silentLogger).warn({ code: 'notebook.no-kernel', message: 'display(): no notebook kernel is running, nothing was shown (use mimeBundle() or renderSvg() outside a notebook)' });
     return;
   }
-  channel.send(bundle);
+  for (const m of messages) channel.send(m);
 }

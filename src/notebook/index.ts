@@ -1,3 +1,3 @@
 // Public API of the notebook area: MIME bundles and display in the tslab kernel.
-export { mimeBundle, plotBundle, tableBundle, type MimeBundle, type Displayable } from './bundle.js';
+export { mimeBundle, plotBundle, tableBundle, resultBundle, displayMessages, type MimeBundle, type Displayable, type BundleOptions } from './bundle.js';
 export { display, kernelChannel, type DisplayOptions, type KernelChannel } from './display.js';

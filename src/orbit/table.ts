@@ -19,7 +19,8 @@
  * "label": …, "velocity2KmPerS": …, "uncertainty2KmPerS": …}], "provenance": [...]}`,
  * or a bare array of such rows.
  */
-import { readFileSync, renameSync, unlinkSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
+import { writeFileAtomic } from '../io/atomic-write.js';
 import { extname, resolve } from 'node:path';
 import { formatLocation, InputError, UsageError, type ErrorLocation } from '../errors.js';
 import { silentLogger, type Logger } from '../logger.js';
@@ -552,12 +553,5 @@ export function writeVelocityTable(path: string, table: VelocityTable, options: 
   if (table.source && resolve(table.source.file) === resolve(path)) throw new UsageError('orbit.write-over-input', messages.writeOverInput(path));
   const out: VelocityTable = { ...table, provenance: [...table.provenance, provenanceEntry('write-velocity-table', { file: path, format })] };
   const text = format === 'json' ? formatVelocityTableJson(out) : formatVelocityTableCsv(out);
-  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`;
-  try {
-    writeFileSync(tmp, text, { encoding: 'utf8', flag: 'wx' });
-    renameSync(tmp, path);
-  } catch (e) {
-    try { unlinkSync(tmp); } catch { /* the temporary file was never made */ }
-    throw e;
-  }
+  writeFileAtomic(path, text);
 }

@@ -52,6 +52,18 @@ export interface CalibrationResidualPlotOptions extends PlotOptions {
   residualUnit?: 'angstrom' | 'kmPerS';
   /** Height of the residual panel in px when the dispersion panel is shown (default from the theme, 100 × 1.6). */
   residualHeight?: number;
+  /**
+   * Which difference the residual axis shows: `solution-minus-reference` (default; the
+   * sign of {@link CalibrationLinePoint.residualAngstrom}) or `reference-minus-solution`
+   * (every residual negated, the sign of a dispersion solution's line table).
+   */
+  residualSign?: 'solution-minus-reference' | 'reference-minus-solution';
+  /**
+   * Keep the residual axis to the lines used (their residuals and error bars, and at least
+   * ±3 RMS), so that one wild rejected line does not flatten the rest: rejected lines
+   * beyond it are drawn at its edge with their value written beside them. Default false.
+   */
+  fitAxisToUsed?: boolean;
 }
 
 /**
@@ -81,12 +93,13 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
   const width = checkSize('width', options.width, PLOT_THEME.width);
   const height = checkSize('height', options.height, PLOT_THEME.height);
   const velocity = (options.residualUnit ?? 'angstrom') === 'kmPerS';
+  const flip = options.residualSign === 'reference-minus-solution' ? -1 : 1;
   const colors = PLOT_THEME.colors;
 
   const rows: PlotDatum[] = [];
   for (const line of data.lines) {
     const w = line.wavelengthAngstrom;
-    const r = line.residualAngstrom;
+    const r = flip * line.residualAngstrom;
     if (!isFiniteNumber(w) || !isFiniteNumber(r) || w <= 0) continue;
     const scale = velocity ? SPEED_OF_LIGHT_KM_PER_S / w : 1;
     const s = line.uncertaintyAngstrom;
@@ -117,7 +130,36 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
   const pad = Math.max((hi - lo) * 0.03, 1);
   const xScale = { domain: [lo - pad, hi + pad], nice: false, zero: false };
   const xAxis: AxisChannel = { field: 'x', title: wavelengthTitle(data.medium), scale: xScale };
-  const yAxis: AxisChannel = { field: 'y', title: `Solution − reference (${velocity ? 'km/s' : 'Å'})` };
+  const yTitle = `${flip > 0 ? 'Solution − reference' : 'Reference − solution'} (${velocity ? 'km/s' : 'Å'})`;
+  // With fitAxisToUsed: the axis spans the used lines (and ±3 RMS) with 15 % room; rejected lines beyond sit on its edge.
+  const offScale: PlotDatum[] = [];
+  let yDomain: [number, number] | undefined;
+  if (options.fitAxisToUsed && usedCount > 0) {
+    let reach = isFiniteNumber(rmsShown) ? 3 * rmsShown : 0;
+    for (const r of usedRows) for (const v of [r.y, r.low, r.high]) if (isFiniteNumber(v)) reach = Math.max(reach, Math.abs(v));
+    if (reach > 0) {
+      const limit = reach * 1.15;
+      yDomain = [-limit, limit];
+      for (const r of rejectedRows) {
+        const y = r.y as number;
+        if (Math.abs(y) <= limit) {
+          // Error bars end at the edge too.
+          if (r.low !== null) r.low = Math.max(r.low as number, -limit);
+          if (r.high !== null) r.high = Math.min(r.high as number, limit);
+          continue;
+        }
+        offScale.push({
+          x: r.x, y: Math.sign(y) * limit, value: `${y > 0 ? '+' : '−'}${formatFixed(Math.abs(y), velocity ? 2 : 4)}`,
+          // Written inside the panel: above a point on the lower edge, below one on the upper edge, leftwards near the right end.
+          dy: y > 0 ? 9 : -9, align: (r.x as number) > lo + 0.8 * (hi - lo) ? 'right' : 'left', dx: (r.x as number) > lo + 0.8 * (hi - lo) ? -6 : 6,
+        });
+        r.y = Math.sign(y) * limit;
+        r.low = null;
+        r.high = null;
+      }
+    }
+  }
+  const yAxis: AxisChannel = { field: 'y', title: yTitle, ...(yDomain ? { scale: { domain: yDomain, nice: false } } : {}) };
 
   const legend: LegendEntry[] = [
     { name: 'Used', color: colors.used, symbol: 'point' },
@@ -143,10 +185,18 @@ export function calibrationResidualPlot(data: CalibrationResidualPlotData, optio
     ...pointsWithErrorBars('lines', xAxis, yAxis, 'Used', legend, { rows: usedRows, filter: 'datum.used', tooltip }),
     ...pointsWithErrorBars('lines', xAxis, yAxis, 'Rejected', legend, { rows: rejectedRows, filter: '!datum.used', shape: 'cross', tooltip }),
   );
+  if (offScale.length) {
+    residualLayers.push({
+      data: { values: offScale },
+      mark: { type: 'text', baseline: 'middle', color: colors.rejected, align: { expr: 'datum.align' }, dx: { expr: 'datum.dx' }, dy: { expr: 'datum.dy' } },
+      encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' }, text: { field: 'value', type: 'nominal' } },
+    });
+  }
 
   const subtitle = options.subtitle ??
     `RMS ${formatFixed(rmsA, 4)} Å (${formatFixed(rmsKmPerS, 2)} km/s) from ${usedCount} of ${rows.length} lines` +
-    (rows.length - usedCount ? `; ${rows.length - usedCount} rejected` : '');
+    (rows.length - usedCount ? `; ${rows.length - usedCount} rejected` : '') +
+    (offScale.length ? ` (${offScale.length} off the scale, value written)` : '');
   const datasets: Record<string, PlotDatum[]> = { lines: rows };
   const base = topLevel(options.title ?? 'Wavelength calibration residuals', subtitle, datasets, 'Calibration line residuals against wavelength.');
 

@@ -35,6 +35,12 @@ export interface CrossCorrelationPlotData {
   readonly peak?: CrossCorrelationPeak;
 }
 
+/** Options of {@link crossCorrelationPlot}. */
+export interface CrossCorrelationPlotOptions extends PlotOptions {
+  /** Title of the velocity axis (default `Velocity shift (km/s)`; e.g. the line-of-sight velocity when the template's own velocity is included). */
+  velocityTitle?: string;
+}
+
 /**
  * Builds a Vega-Lite spec of a cross-correlation function: the correlation against
  * velocity shift (line with sample points), the fitted peak model over its fit range
@@ -52,7 +58,7 @@ export interface CrossCorrelationPlotData {
  *   peak: { velocityKmPerS: 0.2, uncertaintyKmPerS: 0.4 } });
  * (spec.title as { subtitle: string }).subtitle; // 'Peak at 0.20 ± 0.40 km/s'
  */
-export function crossCorrelationPlot(data: CrossCorrelationPlotData, options: PlotOptions = {}): VegaLiteSpec {
+export function crossCorrelationPlot(data: CrossCorrelationPlotData, options: CrossCorrelationPlotOptions = {}): VegaLiteSpec {
   const n = checkColumns('cross-correlation plot', { velocityKmPerS: data.velocityKmPerS, correlation: data.correlation });
   const width = checkSize('width', options.width, PLOT_THEME.width);
   const height = checkSize('height', options.height, PLOT_THEME.height);
@@ -74,7 +80,7 @@ export function crossCorrelationPlot(data: CrossCorrelationPlotData, options: Pl
   }
   const [vLo, vHi] = finiteRange(rows.map((r) => r.x as number));
   const xScale = { domain: vLo === vHi ? [vLo - 1, vHi + 1] : [vLo, vHi], nice: false, zero: false };
-  const xAxis: AxisChannel = { field: 'x', title: 'Velocity shift (km/s)', scale: xScale };
+  const xAxis: AxisChannel = { field: 'x', title: options.velocityTitle ?? 'Velocity shift (km/s)', scale: xScale };
   const yAxis: AxisChannel = { field: 'y', title: 'Correlation (dimensionless)', scale: { zero: false } };
 
   const peak = data.peak;

@@ -48,6 +48,12 @@ export interface LineFitPlotData {
   readonly centres?: readonly FitCentre[];
   /** Medium of the wavelengths, for the axis title. */
   readonly medium?: Medium;
+  /**
+   * Unit of the horizontal axis: `angstrom` (default) or `pixel` for a fit on an
+   * uncalibrated axis (a lamp line before calibration); every length field is then in
+   * pixels despite its name.
+   */
+  readonly unit?: 'angstrom' | 'pixel';
   /** Flux unit for the axis titles; null or absent = arbitrary units. */
   readonly fluxUnit?: string | null;
   /** True when the flux is continuum-normalised. */
@@ -122,7 +128,8 @@ export function lineFitPlot(data: LineFitPlotData, options: LineFitPlotOptions =
   const domain: [number, number] = lo === hi ? [lo - 0.5, hi + 0.5] : [lo, hi];
   const xScale = { domain, nice: false, zero: false };
   const xTop: AxisChannel = { field: 'x', title: null, scale: xScale, axis: { labels: false, ticks: true, title: null } };
-  const xBottom: AxisChannel = { field: 'x', title: wavelengthTitle(data.medium), scale: xScale };
+  const pixelAxis = data.unit === 'pixel';
+  const xBottom: AxisChannel = { field: 'x', title: pixelAxis ? 'Pixel' : wavelengthTitle(data.medium), scale: xScale };
   const yTop: AxisChannel = { field: 'y', title: fluxTitle(data.fluxUnit, data.normalised), scale: { zero: false } };
   const unit = data.normalised ? 'continuum units' : data.fluxUnit?.trim() || 'flux units';
   const yResidual: AxisChannel = { field: 'y', title: residualMode === 'sigma' ? 'Residual (σ)' : `Residual (${unit})` };
@@ -180,7 +187,7 @@ export function lineFitPlot(data: LineFitPlotData, options: LineFitPlotOptions =
   const residualRms = rms(residualRows.map((r) => r.y as number));
   const residualUnit = residualMode === 'sigma' ? 'σ' : unit;
   const centreText = centres.length === 1
-    ? `; centre ${formatWithError(centres[0].wavelengthAngstrom, centres[0].uncertaintyAngstrom, 3)} Å`
+    ? `; centre ${formatWithError(centres[0].wavelengthAngstrom, centres[0].uncertaintyAngstrom, 3)} ${pixelAxis ? 'pixels' : 'Å'}`
     : '';
   const subtitle = options.subtitle ??
     `${points.length} points; residual RMS ${formatFixed(residualRms, residualMode === 'sigma' ? 2 : 3)} ${residualUnit}${centreText}`;

@@ -35,6 +35,8 @@ export interface PeriodogramPlotOptions extends PlotOptions {
   xAxis?: 'period' | 'frequency';
   /** Title of the power axis (default `Power (normalised)`). */
   powerTitle?: string;
+  /** Legend name of the marked peak (default `Highest peak`, or `Chosen peak` when `bestFrequencyPerDay` is given). */
+  peakName?: string;
 }
 
 /**
@@ -97,7 +99,7 @@ export function periodogramPlot(data: PeriodogramPlotData, options: PeriodogramP
   const legend: LegendEntry[] = [
     { name: 'Power', color: colors.data, symbol: 'line' },
     ...(levels.length ? [{ name: 'False-alarm level', color: colors.reference, symbol: 'dashed' as const }] : []),
-    { name: marked ? 'Chosen peak' : 'Highest peak', color: colors.peak, symbol: 'triangle' },
+    { name: options.peakName ?? (marked ? 'Chosen peak' : 'Highest peak'), color: colors.peak, symbol: 'triangle' },
   ];
   const peakName = legend[legend.length - 1].name;
   const periodText = `P = ${formatFixed(1 / bestFrequency, 4)} days`;

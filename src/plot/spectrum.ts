@@ -6,7 +6,7 @@ import { InputError } from '../errors.js';
 import type { Medium, Spectrum } from '../spectrum/spectrum.js';
 import { angstromPerUnit } from '../spectrum/units.js';
 import { checkColumns, checkSize, finiteRange, fluxTitle, formatFixed, isFiniteNumber, topLevel, wavelengthTitle, type PlotOptions } from './common.js';
-import { placeLabels } from './labels.js';
+import { placeLabels, type LabelPlacementOptions } from './labels.js';
 import { DASH, inSeries, type LegendEntry } from './legend.js';
 import type { PlotDatum, VegaLiteSpec } from './spec.js';
 import { PLOT_THEME } from './theme.js';
@@ -17,6 +17,8 @@ export interface MarkedLine {
   readonly wavelengthAngstrom: number;
   /** Label text, e.g. `Hα` or `Ne I 6402.25`. */
   readonly label: string;
+  /** Which labels win the room when not all fit (`labelOverflow: 'drop'`): higher first; equal ones in input order. Default 0. */
+  readonly priority?: number;
 }
 
 /**
@@ -45,20 +47,38 @@ export interface SpectrumPlotData {
   readonly normalised?: boolean;
   /** Lines to mark with a vertical rule and a label. */
   readonly lines?: readonly MarkedLine[];
+  /** Wavelength intervals to shade (e.g. the windows a line finder chose for fitting), in Å; listed in the legend as `windowLabel`. */
+  readonly windows?: readonly ShadedWindow[];
+  /** Legend name of the shaded windows (default `Fit window`). */
+  readonly windowLabel?: string;
+}
+
+/** A wavelength interval shaded on a spectrum plot. */
+export interface ShadedWindow {
+  /** Blue end in Å. */
+  readonly startAngstrom: number;
+  /** Red end in Å. */
+  readonly endAngstrom: number;
 }
 
 /** Options of {@link spectrumPlot}. */
 export interface SpectrumPlotOptions extends PlotOptions {
-  /** Most rows of line labels above the plot (default 4); further labels share rows and may overlap. */
+  /** Most rows of line labels above the plot (default 4). */
   maxLabelRows?: number;
+  /**
+   * What happens to labels that find no free row: `overlap` (default) puts them in the row
+   * that frees up first, over other labels; `drop` leaves those lines out (marker and
+   * label), keeping the lines of highest `priority`, and the subtitle counts them.
+   */
+  labelOverflow?: 'overlap' | 'drop';
 }
 
 const DEFAULT_MAX_LABEL_ROWS = 4;
 
 /**
  * Builds a Vega-Lite spec of a spectrum: flux against wavelength as a line, an optional
- * ±1σ band, an optional continuum (dashed), and optional lines marked with dotted rules
- * and labels in a strip above the plot. Labels of close lines go into separate rows
+ * ±1σ band, an optional continuum (dashed), optional shaded windows, and optional lines
+ * marked with dotted rules and labels in a strip above the plot. Labels of close lines go into separate rows
  * ({@link placeLabels}) so they do not print over each other.
  *
  * @param data wavelengths in Å, flux, optional uncertainty, mask, continuum, medium,
@@ -129,11 +149,31 @@ export function spectrumPlot(data: SpectrumPlotData, options: SpectrumPlotOption
   const xScale = { domain, nice: false, zero: false };
   const xTitle = wavelengthTitle(data.medium);
 
+  const windowRows: PlotDatum[] = [];
+  for (const w of data.windows ?? []) {
+    const lo = Math.max(Math.min(w.startAngstrom, w.endAngstrom), domain[0]);
+    const hi = Math.min(Math.max(w.startAngstrom, w.endAngstrom), domain[1]);
+    if (isFiniteNumber(lo) && isFiniteNumber(hi) && hi > lo) windowRows.push({ start: lo, end: hi });
+  }
+  const windowName = data.windowLabel?.trim() || 'Fit window';
+
   const legend: LegendEntry[] = [{ name: 'Flux', color: colors.data, symbol: 'line' }];
   if (bandRows.length > 0) legend.push({ name: '±1σ', color: colors.uncertainty, symbol: 'band' });
   if (continuumRows.length > 0) legend.push({ name: 'Continuum', color: colors.continuum, symbol: 'dashed' });
+  if (windowRows.length > 0) legend.push({ name: windowName, color: colors.region, symbol: 'band' });
 
   const mainLayers: Record<string, unknown>[] = [];
+  if (windowRows.length > 0) {
+    // Shading first, under everything else.
+    mainLayers.push(inSeries({
+      data: { name: 'windows' },
+      mark: { type: 'rect', opacity: 0.2 },
+      encoding: {
+        x: { field: 'start', type: 'quantitative', scale: xScale, title: xTitle },
+        x2: { field: 'end' },
+      },
+    }, windowName, legend));
+  }
   if (bandRows.length > 0) {
     mainLayers.push(inSeries({
       data: { name: 'band' },
@@ -167,11 +207,11 @@ export function spectrumPlot(data: SpectrumPlotData, options: SpectrumPlotOption
     }, 'Continuum', legend));
   }
 
-  const lines = (data.lines ?? []).filter((l) => isFiniteNumber(l.wavelengthAngstrom) && l.wavelengthAngstrom >= domain[0] && l.wavelengthAngstrom <= domain[1]);
-  const placed = placeLabels(
-    lines.map((l) => ({ x: l.wavelengthAngstrom, text: l.label })),
-    { domain, lengthPx: width, fontSizePx: PLOT_THEME.lineLabelFontSize, maxRows: options.maxLabelRows ?? DEFAULT_MAX_LABEL_ROWS },
-  );
+  const inRange = (data.lines ?? []).filter((l) => isFiniteNumber(l.wavelengthAngstrom) && l.wavelengthAngstrom >= domain[0] && l.wavelengthAngstrom <= domain[1]);
+  const placement = { domain, lengthPx: width, fontSizePx: PLOT_THEME.lineLabelFontSize, maxRows: options.maxLabelRows ?? DEFAULT_MAX_LABEL_ROWS };
+  const lines = options.labelOverflow === 'drop' ? labelsThatFit(inRange, placement) : inRange;
+  const dropped = inRange.length - lines.length;
+  const placed = placeLabels(lines.map((l) => ({ x: l.wavelengthAngstrom, text: l.label })), placement);
   const lineRows: PlotDatum[] = placed.map((p) => ({
     wavelength: lines[p.index].wavelengthAngstrom,
     label: lines[p.index].label,
@@ -183,10 +223,12 @@ export function spectrumPlot(data: SpectrumPlotData, options: SpectrumPlotOption
   const datasets: Record<string, PlotDatum[]> = { spectrum: fluxRows };
   if (bandRows.length > 0) datasets.band = bandRows;
   if (continuumRows.length > 0) datasets.continuum = continuumRows;
+  if (windowRows.length > 0) datasets.windows = windowRows;
 
   const subtitle = options.subtitle ??
     `${fluxRows.length} pixels, ${formatFixed(domain[0], 1)}–${formatFixed(domain[1], 1)} Å` +
-    (lineRows.length ? `; ${lineRows.length} line${lineRows.length === 1 ? '' : 's'} marked` : '');
+    (lineRows.length ? `; ${lineRows.length} line${lineRows.length === 1 ? '' : 's'} marked` : '') +
+    (dropped ? `, ${dropped} more left out for lack of room` : '');
   const spec = topLevel(options.title ?? 'Spectrum', subtitle, datasets, 'Flux against wavelength.');
 
   if (lineRows.length === 0) {
@@ -239,6 +281,22 @@ export function spectrumPlot(data: SpectrumPlotData, options: SpectrumPlotOption
     resolve: { scale: { x: 'shared' } },
     vconcat: [labelStrip, { width, height, layer: mainLayers }],
   };
+}
+
+/**
+ * The lines whose labels all fit without overlapping: taken in order of priority (then
+ * input order), each kept when {@link placeLabels} still finds every kept label a free
+ * row. Returned in input order.
+ */
+function labelsThatFit(lines: readonly MarkedLine[], placement: LabelPlacementOptions): MarkedLine[] {
+  const order = lines.map((l, i) => ({ l, i })).sort((a, b) => (b.l.priority ?? 0) - (a.l.priority ?? 0) || a.i - b.i);
+  const kept: { l: MarkedLine; i: number }[] = [];
+  for (const candidate of order) {
+    const trial = [...kept, candidate];
+    const placed = placeLabels(trial.map(({ l }) => ({ x: l.wavelengthAngstrom, text: l.label })), placement);
+    if (placed.every((p) => !p.overlaps)) kept.push(candidate);
+  }
+  return kept.sort((a, b) => a.i - b.i).map(({ l }) => l);
 }
 
 /**

@@ -62,6 +62,8 @@ export interface PlotTheme {
     readonly rejected: string;
     /** Marked spectral lines and their labels. */
     readonly lineMarker: string;
+    /** Shaded wavelength intervals (fit windows), drawn translucent. */
+    readonly region: string;
     /** Peak or best value marked on a curve. */
     readonly peak: string;
     /** False-alarm levels and other reference levels. */
@@ -97,6 +99,7 @@ export const PLOT_THEME: PlotTheme = Object.freeze({
     used: OKABE_ITO.blue,
     rejected: OKABE_ITO.vermillion,
     lineMarker: '#5a5a5a',
+    region: '#a0a0a0',
     peak: OKABE_ITO.black,
     reference: '#6b6b6b',
     annotation: '#303030',

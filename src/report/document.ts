@@ -3,7 +3,8 @@
  * SVG plots, a provenance section, the safety cautions and an optional banner saying the
  * data is invented. No external resource of any kind, so the file opens offline.
  */
-import { mkdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync } from 'node:fs';
+import { writeFileAtomic } from '../io/atomic-write.js';
 import { dirname } from 'node:path';
 import { UsageError } from '../errors.js';
 import { renderSvg, type RenderOptions } from '../plot/render.js';
@@ -191,12 +192,5 @@ export async function plotBlock(spec: VegaLiteSpec, caption?: string, options: R
  */
 export function writeReportFile(path: string, html: string): void {
   mkdirSync(dirname(path), { recursive: true });
-  const temporary = `${path}.${process.pid}.tmp`;
-  try {
-    writeFileSync(temporary, html, 'utf8');
-    renameSync(temporary, path);
-  } catch (e) {
-    rmSync(temporary, { force: true });
-    throw e;
-  }
+  writeFileAtomic(path, html);
 }

@@ -3,13 +3,10 @@
  * as aligned plain text.
  */
 import { UsageError } from '../errors.js';
+import { formatCell, isMeasuredCell, type ValueWithUncertainty } from './format.js';
 import { escapeHtml } from './html.js';
 
-/** A measured value with its 1-σ uncertainty; shown as `value ± uncertainty`. */
-export interface ValueWithUncertainty {
-  readonly value: number;
-  readonly uncertainty: number;
-}
+export { formatCell, type ValueWithUncertainty } from './format.js';
 
 /** What a table cell may hold. */
 export type TableCell = string | number | boolean | null | undefined | ValueWithUncertainty;
@@ -22,7 +19,7 @@ export interface TableColumn {
   readonly label: string;
   /** Unit shown after the heading in parentheses, e.g. `Å` or `km/s`. */
   readonly unit?: string;
-  /** Decimals for numbers (and value ± uncertainty); default: the number as JavaScript prints it. */
+  /** Decimals for numbers (and value ± uncertainty); default: numbers as JavaScript prints them, value ± uncertainty rounded on two significant digits of the uncertainty (`formatMeasured`). */
   readonly digits?: number;
 }
 
@@ -46,41 +43,12 @@ export function isTable(value: unknown): value is Table {
   return Array.isArray(t.columns) && Array.isArray(t.rows);
 }
 
-function isValueWithUncertainty(v: unknown): v is ValueWithUncertainty {
-  return v !== null && typeof v === 'object' && typeof (v as ValueWithUncertainty).value === 'number' && typeof (v as ValueWithUncertainty).uncertainty === 'number';
-}
-
-function formatNumber(v: number, digits: number | undefined): string {
-  if (Number.isNaN(v)) return 'NaN';
-  if (!Number.isFinite(v)) return v > 0 ? '∞' : '−∞';
-  const text = digits === undefined ? String(v) : v.toFixed(digits);
-  return text.replace(/^-/, '−');
-}
-
-/**
- * The text of one cell: numbers with the column's decimals (minus sign `−`), a value
- * with uncertainty as `12.30 ± 0.45`, booleans as `yes`/`no`, null and undefined as an
- * empty cell, anything else with `String`.
- *
- * @param value the cell value.
- * @param column its column (for the decimals).
- * @returns plain text, not escaped.
- * @example formatCell({ value: 12.3, uncertainty: 0.45 }, { key: 'v', label: 'v', digits: 2 }); // '12.30 ± 0.45'
- */
-export function formatCell(value: unknown, column: TableColumn): string {
-  if (value === null || value === undefined) return '';
-  if (typeof value === 'number') return formatNumber(value, column.digits);
-  if (typeof value === 'boolean') return value ? 'yes' : 'no';
-  if (isValueWithUncertainty(value)) return `${formatNumber(value.value, column.digits)} ± ${formatNumber(value.uncertainty, column.digits)}`;
-  return String(value);
-}
-
 function heading(c: TableColumn): string {
   return c.unit ? `${c.label} (${c.unit})` : c.label;
 }
 
 function isNumericColumn(table: Table, c: TableColumn): boolean {
-  return table.rows.some((r) => typeof r[c.key] === 'number' || isValueWithUncertainty(r[c.key]));
+  return table.rows.some((r) => typeof r[c.key] === 'number' || isMeasuredCell(r[c.key]));
 }
 
 function checkTable(table: Table): void {

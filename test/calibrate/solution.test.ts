@@ -3,7 +3,7 @@
  * spectrum, interpolation in time between two lamps, and calibration on a star's own
  * Balmer lines. Synthetic, seeded, invented data.
  */
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';

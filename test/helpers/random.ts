@@ -1,3 +1,5 @@
+import { uniformGenerator } from '../../src/math/random.js';
+
 /**
  * Seeded random numbers for reproducible simulations: mulberry32 (a small 32-bit
  * generator; common practice for test data) and Box–Muller normal deviates.
@@ -5,14 +7,7 @@
 
 /** Uniform deviates in [0, 1) from a 32-bit seed (mulberry32). */
 export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  return uniformGenerator(seed);
 }
 
 /** Uniform deviates in [0, 1) from a 32-bit seed (the same generator as {@link mulberry32}). */

@@ -2,7 +2,14 @@ import { createRequire } from 'node:module';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import { UsageError } from '../../src/errors.js';
 import { collectingLogger } from '../../src/logger.js';
-import { mimeBundle, plotBundle, tableBundle, type MimeBundle } from '../../src/notebook/bundle.js';
+import { displayMessages, mimeBundle, plotBundle, resultBundle, tableBundle, type MimeBundle } from '../../src/notebook/bundle.js';
+import { plotLineFit } from '../../src/plot/results/line-fit.js';
+import { summarizeLineFit, summarizeFoundLines } from '../../src/report/results/line-fit.js';
+import { summaryText } from '../../src/report/results/summary.js';
+import { tableHtml } from '../../src/report/table.js';
+import { deriveSpectrum } from '../../src/spectrum/spectrum.js';
+import { fitLine } from '../../src/fit/line-fit.js';
+import { galleryResults } from '../plot/result-fixtures.js';
 import { display, kernelChannel } from '../../src/notebook/display.js';
 import { VEGA_LITE_MIME_TYPE } from '../../src/plot/spec.js';
 import { spectrumPlot } from '../../src/plot/spectrum.js';
@@ -48,7 +55,7 @@ describe('mimeBundle', () => {
   it('passes text through and refuses anything else', async () => {
     expect(await mimeBundle('hello')).toEqual({ 'text/plain': 'hello' });
     await expect(mimeBundle({ a: 1 } as never)).rejects.toThrow(UsageError);
-    await expect(mimeBundle(42 as never)).rejects.toThrow('display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }) or a string');
+    await expect(mimeBundle(42 as never)).rejects.toThrow('display() shows a Vega-Lite spec from a plot builder, a table ({ columns, rows }), a string, or a lineshift result (spectrum, line fit, found lines, continuum, identification, dispersion solution, velocity from lines or cross-correlation, velocity table, periodogram, orbit fit)');
   });
 
   it('plotBundle is pure: same input, same bundle', () => {
@@ -104,5 +111,70 @@ describe('display', () => {
   it('says so when the kernel is not running a cell', async () => {
     cache[fakeJupyter] = { exports: { lastWriteDisplayData: null } };
     await expect(display('x')).rejects.toThrow('the notebook kernel is not running a cell');
+  });
+});
+
+describe('library results', () => {
+  const r = galleryResults();
+
+  it('a line fit: escaped HTML of its summary and tables, the text, and its plot', async () => {
+    const bundle = await mimeBundle(r.halpha, { spectrum: r.star });
+    expect(Object.keys(bundle).sort()).toEqual(['text/html', 'text/plain', VEGA_LITE_MIME_TYPE, 'image/svg+xml'].sort());
+    const summary = summarizeLineFit(r.halpha, { spectrum: r.star });
+    const spec = plotLineFit(r.halpha, { spectrum: r.star });
+    expect(bundle[VEGA_LITE_MIME_TYPE]).toStrictEqual(spec);
+    expect(bundle['text/html']).toBe(`<div class="lineshift-result"><p><strong>${summary.title}</strong></p>${summary.lines.map((l) => `<p>${l}</p>`).join('')}${summary.tables.map(tableHtml).join('')}</div>`);
+    expect(bundle['text/plain'].startsWith(summaryText(summary))).toBe(true);
+    expect(bundle['text/plain']).toMatch(/\n\nLVAC-7: line fit at 6562\.24 Å: .* \(plot\)$/);
+    expect(bundle['image/svg+xml']).toMatch(/^<svg[\s\S]*<\/svg>$/);
+  });
+
+  it('is sent as two display messages: the tables, then the plot', async () => {
+    const sent: MimeBundle[] = [];
+    await display(r.halpha, { spectrum: r.star, send: (b) => sent.push(b) });
+    expect(sent).toHaveLength(2);
+    expect(Object.keys(sent[0]).sort()).toEqual(['text/html', 'text/plain']);
+    expect(Object.keys(sent[1]).sort()).toEqual([VEGA_LITE_MIME_TYPE, 'image/svg+xml', 'text/plain'].sort());
+    expect(sent[1]['text/plain']).toMatch(/^LVAC-7: line fit at 6562\.24 Å: 2026-05-14 03:12:45 UTC · gaussian profile/);
+    expect(displayMessages(sent[0])).toEqual([sent[0]]);
+    expect(displayMessages(sent[1])).toEqual([sent[1]]);
+  });
+
+  it('without the context a plot needs: the tables and a note, one message', async () => {
+    const bundle = await mimeBundle(r.found);
+    expect(Object.keys(bundle).sort()).toEqual(['text/html', 'text/plain']);
+    expect(bundle['text/html']).toContain('<p><em>pass { spectrum } (the wavelength-calibrated spectrum) to draw the found lines</em></p>');
+    expect(bundle['text/plain']).toBe(`${summaryText(summarizeFoundLines(r.found))}\n\npass { spectrum } (the wavelength-calibrated spectrum) to draw the found lines`);
+    expect(displayMessages(bundle)).toEqual([bundle]);
+    const withSpectrum = await mimeBundle(r.found, { spectrum: r.star });
+    expect(displayMessages(withSpectrum)).toHaveLength(2);
+  });
+
+  it('escapes text from the header in the HTML and in the SVG', async () => {
+    const hostile = '<script>alert(1)</script>';
+    const star = deriveSpectrum(r.star, { header: r.star.header.with('OBJECT', hostile) });
+    const fit = fitLine(star, { centerAngstrom: 6563 });
+    const bundle = await mimeBundle(fit, { spectrum: star });
+    for (const text of [bundle['text/html'], bundle['image/svg+xml']]) {
+      expect(text).not.toMatch(/<script/i);
+      expect(text).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
+    }
+  });
+
+  it('every kind of result makes a bundle with a summary', async () => {
+    for (const [value, context] of [
+      [r.star, {}], [r.starIdentification, { spectrum: r.star }], [r.sampleSolution, {}], [r.lvac7Table, {}],
+      [r.lvac7Periodogram, { table: r.lvac7Table }], [r.lvac7Orbit, { table: r.lvac7Table }], [r.ccf, {}], [r.lineVelocities, { spectrum: r.velocityStar }],
+    ] as const) {
+      const bundle = await mimeBundle(value, context);
+      expect(bundle['text/html']).toMatch(/^<div class="lineshift-result"><p><strong>/);
+      expect(bundle['image/svg+xml']).toMatch(/^<svg/);
+    }
+  });
+
+  it('resultBundle is pure', () => {
+    const s = { title: 'A & B', lines: ['x < y'], tables: [] };
+    expect(resultBundle(s)).toEqual({ 'text/html': '<div class="lineshift-result"><p><strong>A &amp; B</strong></p><p>x &lt; y</p></div>', 'text/plain': 'A & B\nx < y' });
+    expect(resultBundle(s)).toEqual(resultBundle(s));
   });
 });

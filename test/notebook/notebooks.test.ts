@@ -63,9 +63,20 @@ describeWithJupyter('notebooks run headless with the project kernel', () => {
         }
       });
 
+      it('shows each result cell as two display messages: the summary and tables, then the plot', () => {
+        for (const cell of nb.cells.filter((c) => c.metadata.tags?.includes('result'))) {
+          const displays = (cell.outputs ?? []).filter((o) => o.output_type === 'display_data');
+          expect(displays, `cell ${cell.id}`).toHaveLength(2);
+          expect(Object.keys(displays[0].data ?? {}).sort()).toEqual(['text/html', 'text/plain']);
+          expect(joined(displays[0].data?.['text/html'] as string[])).toMatch(/^<div class="lineshift-result"><p><strong>[^<]+<\/strong><\/p>[\s\S]*<table>/);
+          expect(Object.keys(displays[1].data ?? {}).sort()).toEqual([VEGA_LITE_MIME_TYPE, 'image/svg+xml', 'text/plain'].sort());
+          expect(joined(displays[1].data?.['image/svg+xml'] as string[])).toMatch(/^<svg[\s\S]*<\/svg>$/);
+        }
+      });
+
       it('exports to HTML with every plot inlined as SVG and no script', () => {
         const html = readFileSync(nb.html, 'utf8');
-        const plots = nb.cells.filter((c) => c.metadata.tags?.includes('plot')).length;
+        const plots = nb.cells.filter((c) => c.metadata.tags?.includes('plot') || c.metadata.tags?.includes('result')).length;
         expect(html.match(/<svg[\s>]/g) ?? []).toHaveLength(plots);
         expect(html).not.toMatch(/<script\b/i);
       });

@@ -5,28 +5,18 @@ import { crossCorrelationPlot } from '../../src/plot/crossCorrelation.js';
 import { lineFitPlot } from '../../src/plot/lineFit.js';
 import { periodogramPlot } from '../../src/plot/periodogram.js';
 import { VEGA_LITE_SCHEMA_URL, isVegaLiteSpec, type VegaLiteSpec } from '../../src/plot/spec.js';
-import { vegaLiteConfig } from '../../src/plot/theme.js';
 import { spectrumPlot, spectrumPlotData } from '../../src/plot/spectrum.js';
 import { phaseFoldedVelocityPlot, velocityCurvePlot } from '../../src/plot/velocity.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
-import { deepFreeze, expectValidSpec } from './contract.js';
-import { builderCases, calibrationInput, crossCorrelationInput, lineFitInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
+import { deepFreeze, expectValidSpec, forSnapshot } from './contract.js';
+import { builderCases, calibrationInput, crossCorrelationInput, lineFitInput, lineVelocityInput, orbitInput, periodogramInput, spectrumInput } from './fixtures.js';
+import { lineVelocityPlot } from '../../src/plot/lineVelocity.js';
 
 type Rows = Record<string, unknown>[];
 const datasets = (spec: VegaLiteSpec) => spec.datasets as Record<string, Rows>;
 const subtitle = (spec: VegaLiteSpec) => (spec.title as { subtitle?: string }).subtitle;
 /** Every string in the spec: axis titles and legend names are found by searching them. */
 const strings = (spec: unknown): string[] => JSON.stringify(spec).match(/"(?:[^"\\]|\\.)*"/g)?.map((s) => JSON.parse(s) as string) ?? [];
-
-/**
- * The spec for its snapshot: each dataset cut to its first 3 rows and its length (the data
- * is checked by the tests below); the shared config block checked once, not in every snapshot.
- */
-function forSnapshot(spec: VegaLiteSpec): unknown {
-  const cut = Object.fromEntries(Object.entries(datasets(spec)).map(([k, rows]) => [k, { rows: rows.length, first: rows.slice(0, 3) }]));
-  expect(spec.config).toStrictEqual(vegaLiteConfig());
-  return { ...spec, datasets: cut, config: '(vegaLiteConfig())' };
-}
 
 const builders = builderCases();
 
@@ -320,5 +310,78 @@ describe('periodogramPlot', () => {
   it('rejects a false-alarm probability outside (0, 1)', () => {
     expect(() => periodogramPlot({ ...periodogramInput(), falseAlarmLevels: [{ probability: 1, power: 0.5 }] }))
       .toThrow('a false-alarm probability must be between 0 and 1, got 1');
+  });
+});
+
+describe('options the result plots use', () => {
+  it('spectrumPlot shades windows, clipped to the data range, under a legend entry', async () => {
+    const spec = spectrumPlot({ ...spectrumInput(), windows: [{ startAngstrom: 6560, endAngstrom: 6566 }, { startAngstrom: 6540, endAngstrom: 6552 }, { startAngstrom: 7000, endAngstrom: 7010 }], windowLabel: 'Fit window' });
+    expect(datasets(spec).windows).toEqual([{ start: 6560, end: 6566 }, { start: 6550, end: 6552 }]);
+    expect(strings(spec)).toContain('Fit window');
+    await expectValidSpec(spec);
+  });
+
+  it('spectrumPlot with labelOverflow "drop" keeps the lines of highest priority whose labels fit', () => {
+    // 40 labels crowded into 20 Å cannot all fit in 1 row: the two of highest priority stay, as far apart as they need.
+    const lines = Array.from({ length: 40 }, (_, i) => ({ wavelengthAngstrom: 6552 + 0.5 * i, label: `Line ${i}`, priority: i === 5 ? 10 : i === 30 ? 9 : 0 }));
+    const spec = spectrumPlot({ ...spectrumInput(), lines }, { labelOverflow: 'drop', maxLabelRows: 1 });
+    const kept = datasets(spec).lines.map((l) => l.label);
+    expect(kept).toContain('Line 5');
+    expect(kept).toContain('Line 30');
+    expect(datasets(spec).lines.every((l) => l.row === 0)).toBe(true);
+    expect(subtitle(spec)).toBe(`10 pixels, 6550.0–6572.0 Å; ${kept.length} lines marked, ${40 - kept.length} more left out for lack of room`);
+    // The default keeps every label, overlapping.
+    expect(datasets(spectrumPlot({ ...spectrumInput(), lines }, { maxLabelRows: 1 })).lines).toHaveLength(40);
+  });
+
+  it('lineFitPlot on a pixel axis says so', () => {
+    const spec = lineFitPlot({ ...lineFitInput(), unit: 'pixel', centres: [{ wavelengthAngstrom: 4999.5, uncertaintyAngstrom: 0.02 }] });
+    expect(strings(spec)).toContain('Pixel');
+    expect(subtitle(spec)).toMatch(/centre 4999\.500 ± 0\.020 pixels$/);
+  });
+
+  it('calibrationResidualPlot: the other sign, and the axis fitted to the lines used', async () => {
+    const flipped = calibrationResidualPlot(calibrationInput(), { residualSign: 'reference-minus-solution' });
+    expect(strings(flipped)).toContain('Reference − solution (Å)');
+    expect(datasets(flipped).lines.map((l) => l.y)).toEqual(datasets(calibrationResidualPlot(calibrationInput())).lines.map((l) => -(l.y as number)));
+    const fitted = calibrationResidualPlot({ ...calibrationInput(), dispersion: undefined }, { fitAxisToUsed: true });
+    // Used lines reach 0.04 + 0.02 = 0.06 Å with their error bars, less than 3 RMS (RMS of 0.03, −0.04, 0 = 0.0289 Å):
+    // the axis ends at 1.15 × 3 × RMS, and the rejected 0.5 Å line sits on its edge.
+    const limit = 1.15 * 3 * Math.sqrt((0.03 ** 2 + 0.04 ** 2 + 0) / 3);
+    const layers = fitted.layer as { encoding?: { y?: { scale?: { domain?: number[] } } }; mark: { type: string }; data?: { values?: Record<string, unknown>[] } }[];
+    const domain = layers.map((l) => l.encoding?.y?.scale?.domain).find(Boolean)!;
+    expect(domain).toEqual([-limit, limit].map((v) => expect.closeTo(v, 12)));
+    expect(datasets(fitted).lines.find((l) => !l.used)?.y).toBeCloseTo(limit, 12);
+    expect(layers.find((l) => l.mark.type === 'text')?.data?.values?.[0].value).toBe('+0.5000');
+    expect(subtitle(fitted)).toContain('(1 off the scale, value written)');
+    await expectValidSpec(fitted);
+  });
+
+  it('periodogramPlot names the marked peak as told', () => {
+    const spec = periodogramPlot({ ...periodogramInput(), bestFrequencyPerDay: 0.4 }, { peakName: 'Highest peak' });
+    expect(strings(spec)).toContain('Highest peak');
+    expect(strings(spec)).not.toContain('Chosen peak');
+  });
+});
+
+describe('lineVelocityPlot', () => {
+  it('draws used and rejected lines against their rest wavelength and the combined velocity with its band', () => {
+    const spec = lineVelocityPlot(lineVelocityInput());
+    const rows = datasets(spec).lines;
+    expect(rows.map((r) => r.x)).toEqual([4861.33, 5183.6, 5269.54, 6562.8]);
+    expect(rows.map((r) => r.status)).toEqual(['used', 'used', 'rejected', 'used']);
+    expect(rows[3]).toMatchObject({ low: null, high: null });
+    expect(subtitle(spec)).toBe('v = 12.40 ± 0.60 km/s from 3 of 4 lines');
+    const band = (spec.layer as { mark: { type: string }; data?: { values?: unknown[] } }[]).find((l) => l.mark.type === 'rect');
+    expect(band?.data?.values).toEqual([{ low: 12.4 - 0.6, high: 12.4 + 0.6 }]);
+    expect(strings(spec)).toContain('Rest wavelength (Å, air)');
+  });
+
+  it('refuses a list without any finite line, and does not modify its input', () => {
+    expect(() => lineVelocityPlot({ lines: [{ restWavelengthAngstrom: 5000, velocityKmPerS: NaN, used: false }] }))
+      .toThrow('line velocity plot: no line has a finite wavelength and velocity, nothing to plot');
+    const input = deepFreeze(lineVelocityInput());
+    lineVelocityPlot(input);
+    expect(JSON.stringify(input)).toBe(JSON.stringify(lineVelocityInput()));
   });
 });

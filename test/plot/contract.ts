@@ -7,6 +7,7 @@ import { createRequire } from 'node:module';
 import { Ajv, type ValidateFunction } from 'ajv';
 import { expect } from 'vitest';
 import { compileVegaLite } from '../../src/plot/render.js';
+import { vegaLiteConfig } from '../../src/plot/theme.js';
 import type { VegaLiteSpec } from '../../src/plot/spec.js';
 
 let validator: ValidateFunction | undefined;
@@ -50,4 +51,15 @@ export function deepFreeze<T>(value: T): T {
     for (const v of Object.values(value as object)) deepFreeze(v);
   }
   return value;
+}
+
+/**
+ * The spec for its snapshot: each dataset cut to its first 3 rows and its length (the data
+ * is checked by the tests); the shared config block checked once, not in every snapshot.
+ */
+export function forSnapshot(spec: VegaLiteSpec): unknown {
+  const datasets = spec.datasets as Record<string, unknown[]>;
+  const cut = Object.fromEntries(Object.entries(datasets).map(([k, rows]) => [k, { rows: rows.length, first: rows.slice(0, 3) }]));
+  expect(spec.config).toStrictEqual(vegaLiteConfig());
+  return { ...spec, datasets: cut, config: '(vegaLiteConfig())' };
 }

@@ -5,6 +5,7 @@
 import { calibrationResidualPlot, type CalibrationResidualPlotData } from '../../src/plot/calibration.js';
 import { crossCorrelationPlot, type CrossCorrelationPlotData } from '../../src/plot/crossCorrelation.js';
 import { lineFitPlot, type LineFitPlotData } from '../../src/plot/lineFit.js';
+import { lineVelocityPlot, type LineVelocityPlotData } from '../../src/plot/lineVelocity.js';
 import { periodogramPlot, type PeriodogramPlotData } from '../../src/plot/periodogram.js';
 import type { VegaLiteSpec } from '../../src/plot/spec.js';
 import { spectrumPlot, type SpectrumPlotData } from '../../src/plot/spectrum.js';
@@ -103,6 +104,21 @@ export function periodogramInput(): PeriodogramPlotData {
   };
 }
 
+export function lineVelocityInput(): LineVelocityPlotData {
+  return {
+    medium: 'air',
+    meanVelocityKmPerS: 12.4,
+    meanUncertaintyKmPerS: 0.6,
+    lines: [
+      { restWavelengthAngstrom: 4861.33, velocityKmPerS: 12.9, uncertaintyKmPerS: 1.5, used: true, label: 'H I 4861.33' },
+      { restWavelengthAngstrom: 5183.6, velocityKmPerS: 11.8, uncertaintyKmPerS: 0.9, used: true, label: 'Mg I 5183.60' },
+      { restWavelengthAngstrom: 5269.54, velocityKmPerS: 19.5, uncertaintyKmPerS: 1.1, used: false, label: 'Fe I 5269.54 (outlier)' },
+      { restWavelengthAngstrom: 6562.8, velocityKmPerS: 12.6, used: true, label: 'H I 6562.80' },
+      { restWavelengthAngstrom: 5890, velocityKmPerS: NaN, used: false, label: 'Na I 5889.95 (not fitted)' },
+    ],
+  };
+}
+
 /** One case per builder and variant: a name and a function building the spec from the fixtures. */
 export function builderCases(): [string, () => VegaLiteSpec][] {
   return [
@@ -121,5 +137,7 @@ export function builderCases(): [string, () => VegaLiteSpec][] {
     ['periodogram by period', () => periodogramPlot(periodogramInput())],
     ['periodogram by frequency', () => periodogramPlot(periodogramInput(), { xAxis: 'frequency' })],
     ['phase-folded velocities', () => phaseFoldedVelocityPlot(orbitInput())],
+    ['line velocities', () => lineVelocityPlot(lineVelocityInput())],
+    ['line velocities without a combined value', () => lineVelocityPlot({ ...lineVelocityInput(), meanVelocityKmPerS: undefined, meanUncertaintyKmPerS: undefined })],
   ];
 }

@@ -23,7 +23,7 @@ describe('theme', () => {
     const together = [
       [c.data, c.model, c.continuum, ...c.components], // line fit
       [c.used, c.rejected, c.reference, c.solution], // calibration
-      [c.data, c.uncertainty, c.continuum], // spectrum
+      [c.data, c.uncertainty, c.continuum, c.region], // spectrum
     ];
     for (const set of together) expect(new Set(set).size).toBe(set.length);
     // Yellow is too pale for lines on white: never used for a series.

@@ -4,8 +4,9 @@
  * flux and uncertainty. Header cards of the source that still apply are kept, provenance
  * becomes HISTORY cards, and every HDU carries DATASUM and CHECKSUM.
  */
-import { closeSync, existsSync, fsyncSync, openSync, realpathSync, renameSync, statSync, unlinkSync, writeSync } from 'node:fs';
-import { basename, dirname, join, resolve } from 'node:path';
+import { existsSync, realpathSync, statSync } from 'node:fs';
+import { writeFileAtomic } from '../atomic-write.js';
+import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { silentLogger, type Logger } from '../../logger.js';
 import { isCommentaryKeyword, type HeaderCard } from '../../spectrum/header.js';
@@ -13,7 +14,7 @@ import { formatProvenance } from '../../spectrum/provenance.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
 import { unitSymbol } from '../../spectrum/units.js';
 import { BLOCK_LENGTH, CARD_LENGTH, CardProblem, MAX_HIERARCH_KEYWORD, formatCard, formatReal, isStandardKeyword } from './cards.js';
-import { addOnesComplement, encodeChecksum, onesComplementSum } from './checksum.js';
+import { encodeChecksum, onesComplementSum } from './checksum.js';
 
 /** Options of {@link encodeFitsSpectrum} and {@link writeFitsSpectrum}. */
 export interface FitsWriteOptions {
@@ -418,23 +419,5 @@ export function writeFitsSpectrum(path: string, spectrum: Spectrum, options: Fit
     throw new UsageError('fits.overwrite-input', `is the file this spectrum was read from; lineshift never overwrites its input, so write to another file`, { file: path });
   }
   const bytes = encodeFitsSpectrum(spectrum, options);
-  const temporary = join(dirname(target), `.${basename(target)}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`);
-  let fd: number | undefined;
-  try {
-    fd = openSync(temporary, 'wx');
-    let written = 0;
-    while (written < bytes.length) written += writeSync(fd, bytes, written, bytes.length - written);
-    fsyncSync(fd);
-    closeSync(fd);
-    fd = undefined;
-    renameSync(temporary, target);
-  } catch (e) {
-    if (fd !== undefined) closeSync(fd);
-    try {
-      unlinkSync(temporary);
-    } catch {
-      // already gone
-    }
-    throw e;
-  }
+  writeFileAtomic(target, bytes);
 }

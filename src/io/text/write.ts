@@ -2,7 +2,8 @@
  * Writer for spectra as delimited text (CSV or TSV) that {@link parseTextSpectrum} reads back
  * exactly.
  */
-import { existsSync, realpathSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, realpathSync, statSync } from 'node:fs';
+import { writeFileAtomic } from '../atomic-write.js';
 import { basename, dirname, join, resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import type { HeaderCard } from '../../spectrum/header.js';
@@ -133,17 +134,5 @@ export function writeTextSpectrum(path: string, spectrum: Spectrum, options: Tex
     throw new UsageError('text.output-is-directory', 'the output path is a folder, not a file', { file: path });
   }
   const text = formatTextSpectrum(spectrum, options);
-  const abs = resolve(path);
-  const tmp = join(dirname(abs), `.${basename(abs)}.${process.pid}.${Date.now().toString(36)}${Math.random().toString(36).slice(2, 8)}.tmp`);
-  try {
-    writeFileSync(tmp, text, { flag: 'wx' });
-    renameSync(tmp, abs);
-  } catch (e) {
-    try {
-      unlinkSync(tmp);
-    } catch {
-      // the temporary file was never made or is already gone
-    }
-    throw e;
-  }
+  writeFileAtomic(path, text);
 }
