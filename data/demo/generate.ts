@@ -37,11 +37,12 @@
  *    float32 on a 0-based pixel axis with an uncertainty extension computed from the noisy
  *    counts (as a reduction would), and header cards a newcomer would expect.
  */
-import { mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Body, Equator, Horizon, Observer } from 'astronomy-engine';
 import { diffractionAngleDeg, gratingPixelToWavelength, type SlitSpectrographSetup } from '../../src/calibrate/grating.js';
+import { writeFileAtomic } from '../../src/io/atomic-write.js';
 import { encodeFitsSpectrum } from '../../src/io/fits/write.js';
 import { loadLineList, type LineEntry } from '../../src/lines/linelist.js';
 import { syntheticSpectrum, type SyntheticLine } from '../../src/lines/synthetic.js';
@@ -487,17 +488,10 @@ export function readScenario(path = join(HERE, 'scenario.json')): Scenario {
   return JSON.parse(readFileSync(path, 'utf8')) as Scenario;
 }
 
-/** Writes bytes through a temporary file and a rename. */
+/** Writes bytes through a temporary file and a rename (creating the folder). */
 function writeAtomic(path: string, bytes: Uint8Array | string): void {
   mkdirSync(dirname(path), { recursive: true });
-  const tmp = `${path}.${process.pid}.tmp`;
-  try {
-    writeFileSync(tmp, bytes);
-    renameSync(tmp, path);
-  } catch (e) {
-    rmSync(tmp, { force: true });
-    throw e;
-  }
+  writeFileAtomic(path, bytes);
 }
 
 /** The season's nights (UTC dates of the mornings), first and last from the scenario, the rest at random. */

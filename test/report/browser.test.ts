@@ -3,83 +3,29 @@
  * headless and offline: no console error, no script run, nothing fetched from outside,
  * every plot present and drawn. Screenshots go to out/browser/ for a person to look at.
  */
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
-import { pathToFileURL } from 'node:url';
-import { chromium, type Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { afterAll, beforeAll, expect, it } from 'vitest';
 import { reportHtml, writeReportFile } from '../../src/report/document.js';
 import { sampleReport } from '../../scripts/render-sample-report.js';
+import { describeWithChromium, expectClean, launchChromium, openPage, type PageCheck } from '../helpers/browser.js';
 import { repoPath } from '../helpers/paths.js';
 import { distProblem, executeNotebook, jupyterMissing, notebookNames } from '../notebook/run.js';
-
-const CHROMIUM = ['/usr/bin/chromium', '/usr/bin/chromium-browser'].find((p) => existsSync(p));
-const FLAGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-
-/** What opening a page showed. */
-interface PageCheck {
-  consoleErrors: string[];
-  pageErrors: string[];
-  dialogs: string[];
-  externalRequests: string[];
-  svgCount: number;
-  /** Width × height in px of each SVG as laid out, and how many text elements it has. */
-  svgs: { width: number; height: number; texts: number }[];
-}
 
 let browser: Browser | undefined;
 
 async function open(file: string, screenshot: string): Promise<PageCheck> {
   if (!browser) throw new Error('chromium did not start');
-  // Playwright gives every context a fresh temporary profile (user data dir).
-  const context = await browser.newContext({ viewport: { width: 1100, height: 900 }, javaScriptEnabled: true });
-  const page = await context.newPage();
-  const check: PageCheck = { consoleErrors: [], pageErrors: [], dialogs: [], externalRequests: [], svgCount: 0, svgs: [] };
-  page.on('console', (m) => { if (m.type() === 'error') check.consoleErrors.push(m.text()); });
-  page.on('pageerror', (e) => check.pageErrors.push(e.message));
-  page.on('dialog', (d) => { check.dialogs.push(d.message()); void d.dismiss(); });
-  // Offline: anything but the file itself is refused and recorded.
-  await page.route('**/*', (route) => {
-    const url = route.request().url();
-    if (url.startsWith('file:') || url.startsWith('data:')) return route.continue();
-    check.externalRequests.push(url);
-    return route.abort();
-  });
-  await page.goto(pathToFileURL(file).href, { waitUntil: 'load' });
-  check.svgs = await page.$$eval('svg', (els) => els.map((el) => {
-    const box = el.getBoundingClientRect();
-    return { width: Math.round(box.width), height: Math.round(box.height), texts: el.querySelectorAll('text').length };
-  }));
-  check.svgCount = check.svgs.length;
-  mkdirSync(repoPath('out', 'browser'), { recursive: true });
-  await page.screenshot({ path: repoPath('out', 'browser', screenshot), fullPage: true });
-  await context.close();
-  return check;
+  return openPage(browser, file, screenshot);
 }
 
-function expectClean(check: PageCheck, plots: number): void {
-  expect(check.consoleErrors).toEqual([]);
-  expect(check.pageErrors).toEqual([]);
-  expect(check.dialogs).toEqual([]);
-  expect(check.externalRequests).toEqual([]);
-  expect(check.svgCount).toBe(plots);
-  for (const svg of check.svgs) {
-    // Drawn at a readable size, with its axis labels and titles.
-    expect(svg.width).toBeGreaterThan(300);
-    expect(svg.height).toBeGreaterThan(150);
-    expect(svg.texts).toBeGreaterThan(5);
-  }
-}
-
-const describeWithChromium = CHROMIUM ? describe : describe.skip;
-if (!CHROMIUM) console.warn('SKIPPED "browser check": chromium not found at /usr/bin/chromium (Debian: apt install chromium)');
-
-describeWithChromium(`browser check${CHROMIUM ? '' : ' [SKIPPED: chromium not found]'}`, () => {
+describeWithChromium('browser check', () => {
   const work = mkdtempSync(join(tmpdir(), 'lineshift-browser-'));
 
   beforeAll(async () => {
-    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: FLAGS });
+    browser = await launchChromium();
   }, 60_000);
 
   afterAll(async () => {

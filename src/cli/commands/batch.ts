@@ -1,8 +1,9 @@
 import { availableParallelism } from 'node:os';
-import { mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, rmSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { LINE_PROFILES, type LineProfile } from '../../fit/profiles.js';
+import { writeFileAtomic } from '../../io/atomic-write.js';
 import { createVelocityTable, writeVelocityTable } from '../../orbit/table.js';
 import { provenanceEntry, type ProvenanceEntry } from '../../spectrum/provenance.js';
 import { VERSION } from '../../version.js';
@@ -109,17 +110,6 @@ export function removeTemporaryFiles(dir: string, pid: number = process.pid): nu
   };
   walk(dir);
   return removed;
-}
-
-function writeJsonAtomic(path: string, value: unknown): void {
-  const tmp = `${path}.${process.pid}.${Math.random().toString(36).slice(2, 10)}.tmp`;
-  try {
-    writeFileSync(tmp, JSON.stringify(value, null, 1) + '\n', { encoding: 'utf8', flag: 'wx' });
-    renameSync(tmp, path);
-  } catch (e) {
-    rmSync(tmp, { force: true });
-    throw e;
-  }
 }
 
 const fixed = (x: number, d: number) => (Number.isFinite(x) ? x.toFixed(d) : '—');
@@ -249,7 +239,7 @@ stopped, temporary files removed, no table is written, and the exit code is 130.
       filesFound: plan.files, starsPlanned: plan.jobs.length, results, failures, unusedLamps: plan.unusedLamps, tables,
       wallSeconds: (performance.now() - t0) / 1000, settings: settingsShown, provenance,
     };
-    writeJsonAtomic(join(outDir, 'batch.json'), report);
+    writeFileAtomic(join(outDir, 'batch.json'), JSON.stringify(report, null, 1) + '\n');
     io.stdout(args.json ? JSON.stringify(report) + '\n' : describe(report));
     for (const f of failures) io.stderr(`lineshift: ${f.message}\n`);
     if (!results.length) io.stderr(`lineshift: ${batchMessages.noResults()}\n`);
