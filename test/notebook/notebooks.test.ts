@@ -10,7 +10,10 @@ const names = notebookNames();
 it('there are notebooks to run, committed without outputs', () => {
   expect(names.length).toBeGreaterThan(0);
   for (const name of names) {
-    const nb = JSON.parse(readFileSync(repoPath('notebooks', name), 'utf8')) as { cells: { cell_type: string; outputs?: unknown[]; execution_count?: unknown }[]; metadata: { kernelspec?: { name?: string } } };
+    const nb = JSON.parse(readFileSync(repoPath('notebooks', name), 'utf8')) as { cells: { cell_type: string; source: string[] | string; outputs?: unknown[]; execution_count?: unknown }[]; metadata: { kernelspec?: { name?: string } } };
+    // Every example runs on invented data, and its opening cell says so (the project's rule for demo data).
+    expect(nb.cells[0].cell_type, `${name}: the first cell`).toBe('markdown');
+    expect(joined(nb.cells[0].source), `${name}: the opening cell says the data are invented`).toMatch(/invented/i);
     // Outputs stay out of git: they are large (an SVG and a spec per plot) and change with every library change.
     for (const cell of nb.cells.filter((c) => c.cell_type === 'code')) {
       expect(cell.outputs, `${name}: a code cell has outputs`).toEqual([]);

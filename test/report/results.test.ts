@@ -128,6 +128,9 @@ describe('summaries of real results', () => {
     expect(shown.length).toBe(r.coolIdentification.elements.filter((e) => e.verdict !== 'not detected').length);
     expect(new Set(shown)).toEqual(new Set(['present', 'possible'].filter((v) => shown.includes(v))));
     expect(s.lines[0]).toMatch(/^Present: .*Fe I/);
+    // A measured velocity given to the identification is shown to 0.01 km/s, not with every digit of the double.
+    const shifted = summarizeIdentification({ ...r.coolIdentification, velocityKmPerS: 16.016610253665352 });
+    expect(shifted.lines[1]).toContain(', list velocity 16.02 km/s, ');
   });
 
   it('velocities: the value ± uncertainty in the observer\'s frame, the estimates, every line with its status', () => {

@@ -36,7 +36,7 @@ export function summarizeIdentification(result: IdentificationResult | SpectrumI
   const identified = result.lines.filter((l) => l.candidates.length > 0).length;
   const lines = [
     `Present: ${names(present)}. Possible: ${names(possible)}. ${plural(result.speciesTested, 'spectrum', 'spectra')} tested; the others not detected.`,
-    `${plural(result.lines.length, 'found line')}, ${identified} with at least one candidate; resolving power ${formatSignificant(result.resolvingPower, 3)} (${result.resolvingPowerSource}), list velocity ${formatNumber(result.velocityKmPerS)} km/s, ${result.medium} wavelengths.`,
+    `${plural(result.lines.length, 'found line')}, ${identified} with at least one candidate; resolving power ${formatSignificant(result.resolvingPower, 3)} (${result.resolvingPowerSource}), list velocity ${formatNumber(result.velocityKmPerS, 2)} km/s, ${result.medium} wavelengths.`,
   ];
   const species: Table = {
     caption: 'Species present or possible',
