@@ -20,7 +20,7 @@ import type { VegaLiteSpec } from '../../src/plot/spec.js';
 import { spectrumPlot, spectrumPlotData, type MarkedLine } from '../../src/plot/spectrum.js';
 import { phaseFoldedVelocityPlot, velocityCurvePlot } from '../../src/plot/velocity.js';
 import { plotBlock, type ReportBlock, type ReportDocument, type ReportSection } from '../../src/report/document.js';
-import { formatMeasured, formatProbability } from '../../src/report/format.js';
+import { formatMeasured, formatNumber, formatProbability } from '../../src/report/format.js';
 import type { Table } from '../../src/report/table.js';
 import type { Header } from '../../src/spectrum/header.js';
 import { provenanceEntry, type ProvenanceEntry } from '../../src/spectrum/provenance.js';
@@ -159,7 +159,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
   await plot('phase', phaseFoldedVelocityPlot({
     bjdTdb: table.bjdTdb, velocityKmPerS: table.velocityKmPerS, uncertaintyKmPerS: table.uncertaintyKmPerS, orbitVelocityKmPerS: orbitAt,
     systemicVelocityKmPerS: orbit.systemicVelocityKmPerS, periodDays: orbit.periodDays, epochBjdTdb: orbit.periastronTimeBjdTdb,
-  }, { title: 'LVAC-7: velocities folded on the fitted period', subtitle: `phase 0 at periastron, BJD_TDB ${orbit.periastronTimeBjdTdb.toFixed(3)}; ${elementsLine}` }),
+  }, { title: 'LVAC-7: velocities folded on the fitted period', subtitle: `phase 0 at periastron, BJD_TDB ${formatNumber(orbit.periastronTimeBjdTdb, 3)}; ${elementsLine}` }),
   `The same velocities folded on the fitted period (${from(run, 'orbit')}), with the orbit and the residuals.`);
 
   // Tables.
@@ -204,6 +204,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
   };
 
   const p = cmp.pulls;
+  const zeroPoint = cmp.nights.map((n) => n.wavelengthErrorMiddleKmPerS);
   const cal = cmp.calibration;
   const failure = batch.failures[0];
   const nightsUsed = batch.results.length;
@@ -242,7 +243,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
         { kind: 'paragraph', text: `The batch command reduced every night: ${nightsUsed} star exposures with their lamps, spread over ${batch.workers} worker thread${batch.workers === 1 ? '' : 's'}. Each velocity comes from the Balmer line Hα, Si II 6347/6371 and the Fe II lines (each fitted, then combined with outlier rejection), includes the calibration's error, and is corrected to the solar-system barycentre for the header's time, target and site (BJD_TDB at mid-exposure).` },
         plots['line-fit'],
         plots.ccf,
-        { kind: 'paragraph', text: `On ${night}: lines ${m(nightResult.measuredVelocity, 'km/s')}, cross-correlation ${m(run.ccf.measuredVelocity, 'km/s')} (observer's frame); true ${truth.exposures.find((e) => e.night === night)!.topocentricVelocityKmPerS.toFixed(3)} km/s.` },
+        { kind: 'paragraph', text: `On ${night}: lines ${m(nightResult.measuredVelocity, 'km/s')}, cross-correlation ${m(run.ccf.measuredVelocity, 'km/s')} (observer's frame); true ${formatNumber(truth.exposures.find((e) => e.night === night)!.topocentricVelocityKmPerS, 3)} km/s.` },
         { kind: 'table', table: nightsTable },
         { kind: 'paragraph', text: `One file could not be used, and the batch carried on: ${failure.message}. It is the deliberately truncated file of the demo data (see data/demo/README.md); its night is missing from the table.` },
       ],
@@ -284,10 +285,10 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
         { kind: 'paragraph', text: 'This section compares the results with the invented values the data were generated from (data/demo/truth.json). It checks the whole chain — calibration, interpolation, line fits, barycentric correction, period search and orbit fit — against our own truth, not against the real world.' },
         { kind: 'table', table: orbitTable },
         { kind: 'facts', items: [
-          ['Velocities per night', `χ² = ${p.chiSquare.toFixed(1)} for ${p.count} nights (probability of a larger value ${formatProbability(p.chiSquareProbability)}); mean pull ${p.meanPull.toFixed(2)}, RMS pull ${p.rmsPull.toFixed(2)}, largest |pull| ${p.maxAbsPull.toFixed(2)}`],
+          ['Velocities per night', `χ² = ${p.chiSquare.toFixed(1)} for ${p.count} nights (probability of a larger value ${formatProbability(p.chiSquareProbability)}); mean pull ${formatNumber(p.meanPull, 2)}, RMS pull ${p.rmsPull.toFixed(2)}, largest |pull| ${p.maxAbsPull.toFixed(2)}`],
           ['BJD_TDB', `largest difference ${Math.max(...cmp.nights.map((n) => Math.abs(n.bjdDifferenceSeconds))).toFixed(4)} s (the same header keys and library as the generator)`],
-          ['Calibrated wavelengths of the stars', `largest error over all pixels and nights ${Math.max(...cmp.nights.map((n) => n.wavelengthErrorMaxKmPerS)).toFixed(2)} km/s; median stated calibration error ${median(cmp.nights.map((n) => n.statedCalibrationKmPerS)).toFixed(2)} km/s`],
-          [`${sc.identificationStar.name} velocity`, `${m(cmp.lvac12.measured, 'km/s')} barycentric against ${cmp.lvac12.trueKmPerS} km/s true (${cmp.lvac12.pull.toFixed(1)} σ); at R ≈ 900 the lamp's blended lines leave calibration errors of a few km/s at the ends of the range`],
+          ['Calibrated wavelengths of the stars', `at the middle of the spectra (the velocity zero point) the error is ${formatNumber(mean(zeroPoint), 3)} km/s on average, RMS of error/stated ${Math.sqrt(mean(cmp.nights.map((n) => (n.wavelengthErrorMiddleKmPerS / n.statedCalibrationKmPerS) ** 2))).toFixed(2)} (median stated error ${median(cmp.nights.map((n) => n.statedCalibrationKmPerS)).toFixed(3)} km/s); largest error over all pixels and nights ${Math.max(...cmp.nights.map((n) => n.wavelengthErrorMaxKmPerS)).toFixed(2)} km/s`],
+          [`${sc.identificationStar.name} velocity`, `${m(cmp.lvac12.measured, 'km/s')} barycentric against ${cmp.lvac12.trueKmPerS} km/s true (${formatNumber(cmp.lvac12.pull, 1)} σ); at R ≈ 900 the lamp's blended lines leave calibration errors of a few km/s at the ends of the range`],
           [`${sc.identificationStar.name} species`, `put in: ${truth.lvac12.composition.map((c) => c.species).join(', ')}; called present: ${present.join(', ') || 'none'}; present or possible and really there: ${cmp.lvac12.found.join(', ')}; put in but not found: ${truth.lvac12.composition.map((c) => c.species).filter((s) => !cmp.lvac12.found.includes(s)).join(', ') || 'none'}; called present but absent: ${cmp.lvac12.falsePresent.join(', ') || 'none'}`],
         ] },
       ],
@@ -341,7 +342,11 @@ function telluricNote(run: DemoRun): ReportBlock[] {
 /** A true value written with as many decimals as the fitted value beside it. */
 function sameDecimals(value: number, fitted: string): string {
   const decimals = /\.(\d+)/.exec(fitted.split('±')[0])?.[1].length ?? 0;
-  return value.toFixed(Math.max(decimals, 1));
+  return formatNumber(value, Math.max(decimals, 1));
+}
+
+function mean(values: readonly number[]): number {
+  return values.reduce((a, b) => a + b, 0) / values.length;
 }
 
 function median(values: readonly number[]): number {

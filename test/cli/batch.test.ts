@@ -174,6 +174,25 @@ describe('lineshift batch', () => {
     expect(r.failures[1].message).toBe('mixed/alone/star.fits: no lamp frame in the same folder; put the lamp exposures taken with this star beside it');
   }, 60_000);
 
+  it('leaves its inputs untouched and does not take its own outputs for inputs on a second run', async () => {
+    const before = filesUnder(frames).map((f) => [f, readFileSync(join(frames, f)).toString('base64')]);
+    // The output folder inside the input folder: its calibrated spectra must not be read as stars.
+    await runCli(['batch', 'frames/lvac7', '--out', 'frames/lvac7/reduced', '--workers', '1', '--json', ...SETUP, ...VELOCITY], capture());
+    const again = capture();
+    await runCli(['batch', 'frames/lvac7', '--out', 'frames/lvac7/reduced', '--workers', '1', '--json', ...SETUP, ...VELOCITY], again);
+    const r = JSON.parse(again.out) as BatchReport;
+    expect(r.filesFound).toBe(12);
+    expect(r.results).toHaveLength(3);
+    rmSync(join(frames, 'lvac7', 'reduced'), { recursive: true });
+    expect(filesUnder(frames).map((f) => [f, readFileSync(join(frames, f)).toString('base64')])).toEqual(before);
+  }, 120_000);
+
+  it('names a missing input in one line', async () => {
+    const m = capture();
+    expect(await runCli(['batch', 'no-such-folder', '--out', 'out-missing', ...SETUP], m)).toBe(1);
+    expect(m.err).toBe('lineshift: no-such-folder: no such file or folder\n');
+  });
+
   it('refuses a bad --workers value and missing options before reading anything', async () => {
     const a = capture();
     expect(await runCli(['batch', 'frames', '--out', 'x', '--workers', '0', ...SETUP], a)).toBe(2);

@@ -1,6 +1,7 @@
 /** Every message of `lineshift batch`, in one place (one format: `FILE: what happened`). */
 export const batchMessages = {
   noFrames: (inputs: readonly string[]) => `no FITS files (${['.fits', '.fit', '.fts'].join(', ')}) found in ${inputs.join(', ')}`,
+  noSuchInput: (input: string) => `${input}: no such file or folder`,
   unknownFrameType: (file: string) =>
     `${file}: cannot tell whether this is a lamp or a star: no IMAGETYP (or FRAMETYP, OBSTYPE) card saying lamp/arc/comp or object/light, and the file name does not say; add the card or put "lamp" in a lamp file's name`,
   noTime: (file: string, kind: 'lamp' | 'star') => `${file}: this ${kind} frame has no DATE-OBS (or DATE-AVG, MJD-OBS ...), so it cannot be paired by time`,

@@ -46,10 +46,15 @@ export interface BatchPlan {
   readonly root: string;
 }
 
-/** Every FITS file under the inputs (files as given, folders searched recursively), absolute, sorted, without repeats. */
-export function findFrames(inputs: readonly string[], cwd: string): string[] {
+/**
+ * Every FITS file under the inputs (files as given, folders searched recursively), absolute,
+ * sorted, without repeats, leaving out the folder `exclude` (the batch's own output).
+ * @throws {InputError} `batch.no-such-input` for an input that does not exist.
+ */
+export function findFrames(inputs: readonly string[], cwd: string, exclude?: string): string[] {
   const out = new Set<string>();
   const walk = (dir: string) => {
+    if (exclude !== undefined && resolve(dir) === resolve(exclude)) return;
     const entries = readdirSync(dir, { withFileTypes: true }).sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
     for (const e of entries) {
       if (e.name.startsWith('.')) continue;
@@ -60,7 +65,12 @@ export function findFrames(inputs: readonly string[], cwd: string): string[] {
   };
   for (const input of inputs) {
     const p = resolve(cwd, input);
-    const st = statSync(p);
+    let st;
+    try {
+      st = statSync(p);
+    } catch {
+      throw new InputError('batch.no-such-input', batchMessages.noSuchInput(input));
+    }
     if (st.isDirectory()) walk(p);
     else out.add(p);
   }
@@ -113,11 +123,12 @@ export function asFailure(e: unknown, file: string, stage: BatchFailure['stage']
  * @param inputs files and folders, as given on the command line.
  * @param cwd working directory (absolute).
  * @param logger receives the readers' warnings.
+ * @param exclude a folder not to search (the output folder, so that a second run does not take its own outputs for inputs).
  * @returns the jobs, the failures, the unused lamps and the root folder.
- * @throws {InputError} `batch.no-frames` when no FITS file is found.
+ * @throws {InputError} `batch.no-frames` when no FITS file is found, `batch.no-such-input` for a missing input.
  */
-export function planBatch(inputs: readonly string[], cwd: string, logger: Logger = silentLogger): BatchPlan {
-  const paths = findFrames(inputs, cwd);
+export function planBatch(inputs: readonly string[], cwd: string, logger: Logger = silentLogger, exclude?: string): BatchPlan {
+  const paths = findFrames(inputs, cwd, exclude);
   if (paths.length === 0) throw new InputError('batch.no-frames', batchMessages.noFrames(inputs));
   const shown = (p: string) => relative(cwd, p) || p;
   const failures: BatchFailure[] = [];

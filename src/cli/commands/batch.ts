@@ -183,7 +183,7 @@ stopped, temporary files removed, no table is written, and the exit code is 130.
     const shown = (p: string) => relative(io.cwd, p) || '.';
     // Options are checked before any file is read.
     settingsFrom(args, io.cwd, outDir, io.cwd);
-    const plan = planBatch(args.positionals, io.cwd, io.logger);
+    const plan = planBatch(args.positionals, io.cwd, io.logger, outDir);
     const settings = settingsFrom(args, io.cwd, outDir, plan.root);
     mkdirSync(outDir, { recursive: true });
 
