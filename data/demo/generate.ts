@@ -264,7 +264,7 @@ function listed(species: string, approximateAngstrom: number): number {
  * A-star-like; the widths include rotation (v sin i from the scenario, as a Gaussian of FWHM
  * √3·v sin i·λ/c, a rough stand-in for the rotational profile).
  */
-function lvac7Lines(vsiniKmPerS: number): SyntheticLine[] {
+export function lvac7Lines(vsiniKmPerS: number): SyntheticLine[] {
   const rot = (l: number) => (Math.sqrt(3) * vsiniKmPerS * l) / SPEED_OF_LIGHT_KM_PER_S;
   const metal = (species: string, l: number, depth: number): SyntheticLine => {
     const w = listed(species, l);
@@ -481,6 +481,40 @@ function starModel(setup: SlitSpectrographSetup, lines: SyntheticLine[], telluri
 }
 
 // ---------------------------------------------------------------------------------------------
+// LVAC-7's set-up and star frame (exported for the checks of the generator against its truth)
+
+/**
+ * LVAC-7's nominal set-up: the camera fixed at the angle that puts the central wavelength on
+ * its axis (the middle pixel) at the nominal incidence. Each frame's set-up in truth.json is
+ * this with the night's incidence and the flexure's axis pixel.
+ */
+export function lvac7NominalSetup(scenario: Scenario): SlitSpectrographSetup {
+  const ins = scenario.instrument;
+  return {
+    kind: 'slit', linesPerMm: ins.linesPerMm, order: ins.order, incidenceDeg: ins.incidenceDeg,
+    cameraAngleDeg: diffractionAngleDeg(ins.centralWavelengthAngstrom, ins.linesPerMm, ins.order, ins.incidenceDeg),
+    focalLengthMm: ins.focalLengthMm, pixelSizeUm: ins.pixelSizeUm, pixels: ins.pixels, axisPixel: (ins.pixels - 1) / 2,
+  };
+}
+
+/**
+ * The noise-free LVAC-7 star frame, in ADU per pixel, exactly as the generator makes it
+ * before adding noise: the lines of {@link lvac7Lines} shifted by `velocityKmPerS` (the
+ * observer's frame) on a Planck continuum, blurred to the nominal set-up's resolving power,
+ * integrated over the pixels of `setup` (the star frame's set-up, e.g.
+ * `truth.exposures[i].dispersion.star.setup`), times the instrument response and the
+ * extinction at `airmass`, scaled so that the highest pixel holds peakSignalToNoise²
+ * electrons.
+ */
+export function lvac7StarModel(scenario: Scenario, setup: SlitSpectrographSetup, velocityKmPerS: number, airmassValue: number, peakSignalToNoise: number): Float64Array {
+  const ins = scenario.instrument;
+  const b = scenario.binary;
+  const R7 = resolvingPowerOf(lvac7NominalSetup(scenario), ins.slitFwhmPixels);
+  const peakAdu = (peakSignalToNoise * peakSignalToNoise) / ins.gainElectronsPerAdu;
+  return starModel(setup, lvac7Lines(b.projectedRotationKmPerS), [], b.effectiveTemperatureK, velocityKmPerS, R7, (l) => throughput(scenario, l, airmassValue), peakAdu);
+}
+
+// ---------------------------------------------------------------------------------------------
 // The whole data set
 
 /** Reads data/demo/scenario.json. */
@@ -525,16 +559,10 @@ export function generateDemo(dir: string = HERE, scenario: Scenario = readScenar
   const ins = scenario.instrument;
   const camera: Camera = { gainElectronsPerAdu: ins.gainElectronsPerAdu, readNoiseElectrons: ins.readNoiseElectrons, saturationAdu: ins.saturationAdu };
 
-  // LVAC-7's set-up: the camera fixed at the angle that puts the central wavelength on its axis at the nominal incidence.
-  const cameraAngleDeg = diffractionAngleDeg(ins.centralWavelengthAngstrom, ins.linesPerMm, ins.order, ins.incidenceDeg);
-  const axisPixel = (ins.pixels - 1) / 2;
-  const nominal: SlitSpectrographSetup = {
-    kind: 'slit', linesPerMm: ins.linesPerMm, order: ins.order, incidenceDeg: ins.incidenceDeg, cameraAngleDeg,
-    focalLengthMm: ins.focalLengthMm, pixelSizeUm: ins.pixelSizeUm, pixels: ins.pixels, axisPixel,
-  };
+  const nominal = lvac7NominalSetup(scenario);
+  const axisPixel = nominal.axisPixel!;
   const R7 = resolvingPowerOf(nominal, ins.slitFwhmPixels);
   const b = scenario.binary;
-  const lines7 = lvac7Lines(b.projectedRotationKmPerS);
   const lamp = scenario.lamp;
   const setupLabel7 = `${ins.linesPerMm} l/mm, centre ${ins.centralWavelengthAngstrom} A`;
 
@@ -580,8 +608,7 @@ export function generateDemo(dir: string = HERE, scenario: Scenario = readScenar
       const frame = expose(lampModel(setups[key], lamp, R7), camera, seed);
       put(files[key], frameBytes(frame.flux, frame.uncertainty, lampCards(s)));
     }
-    const peakAdu = (snr * snr) / ins.gainElectronsPerAdu;
-    const model = starModel(setups.star, lines7, [], b.effectiveTemperatureK, vTopo, R7, (l) => throughput(scenario, l, X), peakAdu);
+    const model = lvac7StarModel(scenario, setups.star, vTopo, X, snr);
     const frame = expose(model, camera, seeds[1]);
     const starHeader = frameHeader(scenario, {
       object: b.name, frameType: 'object', start: starStart, exposureS: b.season.exposureSeconds, observer, instrumentNote: setupLabel7,
