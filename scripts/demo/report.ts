@@ -232,7 +232,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
           ['Lamp', run.calibration.file],
           ['Lines', `${run.calibration.linesMeasured} measured, ${run.calibration.linesIdentified} identified, ${run.calibration.linesUsed} used`],
           ['RMS of the residuals', `${run.calibration.rmsAngstrom!.toFixed(4)} Å = ${run.calibration.rmsPixels!.toFixed(3)} pixel = ${run.calibration.rmsKmPerS!.toFixed(2)} km/s`],
-          ['Resolving power λ/FWHM', run.calibration.resolvingPower ? `${run.calibration.resolvingPower.median.toFixed(0)} ± ${run.calibration.resolvingPower.spread.toFixed(0)}` : '—'],
+          ['Resolving power λ/FWHM', run.calibration.resolvingPower !== null ? `${run.calibration.resolvingPower.toFixed(0)} ± ${(run.calibration.resolvingPowerSpread ?? NaN).toFixed(0)}` : '—'],
           ['Against the true dispersion', `largest error ${cal.maxErrorAngstrom.toFixed(4)} Å (RMS ${cal.rmsErrorAngstrom.toFixed(4)} Å) over the 2048 pixels; the solution's own 1-σ error reaches ${cal.statedMaxAngstrom.toFixed(4)} Å`],
         ] },
       ],

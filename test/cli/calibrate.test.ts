@@ -64,8 +64,12 @@ describe('lineshift calibrate', () => {
     expect(r.rmsPixels!).toBeLessThan(0.1);
     expect(r.rmsKmPerS!).toBeCloseTo((r.rmsAngstrom! / 6400) * 299_792.458, 0);
     expect(r.linesUsed).toBeGreaterThanOrEqual(20);
-    expect(r.linesRejected).toBeGreaterThanOrEqual(0);
-    expect(r.resolvingPower!.median).toBeGreaterThan(3000);
+    // Every identified line is either used or rejected; clipped lines are among the rejected.
+    expect(r.linesUsed + r.linesRejected).toBe(r.linesIdentified);
+    expect(r.linesClipped).toBeLessThanOrEqual(r.linesRejected);
+    expect(r.lines.filter((l) => l.wavelengthAngstrom !== null && !l.used).length).toBe(r.linesRejected);
+    expect(r.resolvingPower!).toBeGreaterThan(3000);
+    expect(r.resolvingPowerSpread!).toBeGreaterThan(0);
     expect(r.lines.length).toBe(r.linesMeasured);
     expect(r.lines.filter((l) => l.used).length).toBe(r.linesUsed);
     const saved = JSON.parse(readFileSync(join(dir, 'sol1.json'), 'utf8'));

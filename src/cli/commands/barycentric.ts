@@ -10,10 +10,10 @@ import { OBSERVATION_OPTIONS, observationOverrides } from './observation-options
 export interface BarycentricReport {
   /** The FITS or text file whose header was read, or null. */
   file: string | null;
-  /** Barycentric correction, km/s, to add to a measured velocity (c·z_B). */
-  barycentricCorrectionKmPerS: number;
-  /** Heliocentric correction, km/s (classical). */
-  heliocentricCorrectionKmPerS: number;
+  /** Barycentric correction in km/s, to add to a measured velocity (c·z_B; relativistic combination). */
+  barycentricCorrection: number;
+  /** Heliocentric correction in km/s (classical). */
+  heliocentricCorrection: number;
   /** BJD_TDB at the mid-point. */
   bjdTdb: number;
   /** HJD on the UTC scale at the mid-point. */
@@ -38,8 +38,8 @@ export function barycentricReport(c: HeaderCorrection, file: string | null): Bar
   const o = c.observation;
   return {
     file,
-    barycentricCorrectionKmPerS: c.barycentricCorrectionKmPerS,
-    heliocentricCorrectionKmPerS: c.heliocentricCorrectionKmPerS,
+    barycentricCorrection: c.barycentricCorrectionKmPerS,
+    heliocentricCorrection: c.heliocentricCorrectionKmPerS,
     bjdTdb: c.bjdTdb,
     hjd: c.hjd,
     hjdTimeScale: 'UTC',
@@ -68,8 +68,8 @@ function describe(r: BarycentricReport): string {
   };
   return [
     ...(r.file ? [r.file] : []),
-    `  barycentric correction: ${r.barycentricCorrectionKmPerS.toFixed(4)} km/s (add to a measured velocity)`,
-    `  heliocentric correction: ${r.heliocentricCorrectionKmPerS.toFixed(4)} km/s`,
+    `  barycentric correction: ${r.barycentricCorrection.toFixed(4)} km/s (add to a measured velocity)`,
+    `  heliocentric correction: ${r.heliocentricCorrection.toFixed(4)} km/s`,
     `  BJD_TDB:   ${r.bjdTdb.toFixed(6)}`,
     `  HJD (UTC): ${r.hjd.toFixed(6)}`,
     `  mid-point: ${r.midpoint} UTC (${methods[r.midpointMethod] ?? r.midpointMethod})`,

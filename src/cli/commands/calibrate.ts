@@ -7,7 +7,7 @@ import { gratingSolution } from '../../calibrate/grating-solution.js';
 import type { GratingParameterName, GratingSetup } from '../../calibrate/grating.js';
 import type { WavelengthHint } from '../../calibrate/identify.js';
 import { writeSolution } from '../../calibrate/solution-json.js';
-import type { DispersionSolution, SolutionLine } from '../../calibrate/solution.js';
+import { solutionWavelength, type DispersionSolution, type SolutionLine } from '../../calibrate/solution.js';
 import type { Header } from '../../spectrum/header.js';
 import { readObservation } from '../../velocity/observation.js';
 import { mjdUtcOf } from '../../velocity/time.js';
@@ -32,8 +32,15 @@ export interface CalibrateReport {
   linesMeasured: number;
   linesIdentified: number;
   linesUsed: number;
+  /** Identified lines not used in the solution (sigma-clipped, saturated, blended, fit failed). */
   linesRejected: number;
-  resolvingPower: DispersionSolution['resolvingPower'];
+  /** Of the rejected lines, those removed by sigma clipping. */
+  linesClipped: number;
+  /** Resolving power λ/FWHM: the median over the lamp lines (null when no line could be measured). */
+  resolvingPower: number | null;
+  /** Spread (robust standard deviation) of λ/FWHM over the lines, and how many lines. */
+  resolvingPowerSpread: number | null;
+  resolvingPowerLines: number;
   wavelengthUncertaintyAngstrom: DispersionSolution['wavelengthUncertaintyAngstrom'];
   /** λ at the first and last pixel, Å (null when not ok). */
   wavelengthRangeAngstrom: [number, number] | null;
@@ -124,18 +131,14 @@ function uncertaintiesFromArgs(args: ParsedArgs): Partial<Record<GratingParamete
 
 /** Builds the JSON report of the command. */
 export function calibrateReport(s: DispersionSolution, file: string, out: string | null): CalibrateReport {
-  const ends = s.ok && s.coefficients.length ? [s.domain.min, s.domain.max].map((p) => {
-    const t = (2 * p - s.domain.max - s.domain.min) / (s.domain.max - s.domain.min);
-    let b1 = 0, b2 = 0;
-    for (let k = s.coefficients.length - 1; k >= 1; k--) { const b0 = 2 * t * b1 - b2 + s.coefficients[k]; b2 = b1; b1 = b0; }
-    return t * b1 - b2 + s.coefficients[0];
-  }) as [number, number] : null;
+  const ends = s.ok && s.coefficients.length ? ([s.domain.min, s.domain.max].map((p) => solutionWavelength(s, p)) as [number, number]) : null;
   return {
     file, ok: s.ok, reason: s.reason, message: s.message, method: s.method, calibratedByLamp: s.calibratedByLamp,
     velocityZeroPointMeaningful: s.velocityZeroPointMeaningful, order: s.order,
     rms: s.rmsAngstrom, rmsAngstrom: s.rmsAngstrom, rmsPixels: s.rmsPixels, rmsKmPerS: s.rmsKmPerS,
-    linesMeasured: s.linesMeasured, linesIdentified: s.linesIdentified, linesUsed: s.linesUsed, linesRejected: s.linesRejected,
-    resolvingPower: s.resolvingPower, wavelengthUncertaintyAngstrom: s.wavelengthUncertaintyAngstrom,
+    linesMeasured: s.linesMeasured, linesIdentified: s.linesIdentified, linesUsed: s.linesUsed, linesRejected: s.linesIdentified - s.linesUsed, linesClipped: s.linesRejected,
+    resolvingPower: s.resolvingPower?.median ?? null, resolvingPowerSpread: s.resolvingPower?.spread ?? null, resolvingPowerLines: s.resolvingPower?.lines ?? 0,
+    wavelengthUncertaintyAngstrom: s.wavelengthUncertaintyAngstrom,
     wavelengthRangeAngstrom: ends, warnings: s.warnings, out, lines: s.lines,
   };
 }
@@ -147,9 +150,9 @@ function describe(r: CalibrateReport): string {
   if (r.wavelengthRangeAngstrom) out.push(`  range:            ${r.wavelengthRangeAngstrom[0].toFixed(2)} to ${r.wavelengthRangeAngstrom[1].toFixed(2)} Å (${r.method}${r.calibratedByLamp ? '' : ', not calibrated by a lamp'})`);
   if (r.method !== 'grating-equation') {
     out.push(`  order:            ${r.order}`);
-    out.push(`  lines:            ${r.linesMeasured} measured, ${r.linesIdentified} identified, ${r.linesUsed} used, ${r.linesRejected} clipped`);
+    out.push(`  lines:            ${r.linesMeasured} measured, ${r.linesIdentified} identified, ${r.linesUsed} used, ${r.linesRejected} not used (${r.linesClipped} clipped)`);
     out.push(`  RMS:              ${f(r.rmsAngstrom, 4)} Å = ${f(r.rmsPixels, 4)} pixel = ${f(r.rmsKmPerS, 2)} km/s`);
-    if (r.resolvingPower) out.push(`  resolving power:  ${r.resolvingPower.median.toFixed(0)} ± ${r.resolvingPower.spread.toFixed(0)} (λ/FWHM, median and spread of ${r.resolvingPower.lines} lines)`);
+    if (r.resolvingPower !== null) out.push(`  resolving power:  ${r.resolvingPower.toFixed(0)} ± ${(r.resolvingPowerSpread ?? NaN).toFixed(0)} (λ/FWHM, median and spread of ${r.resolvingPowerLines} lines)`);
   }
   if (r.wavelengthUncertaintyAngstrom) out.push(`  solution error:   ${r.wavelengthUncertaintyAngstrom.middle.toPrecision(2)} Å at the middle, up to ${r.wavelengthUncertaintyAngstrom.max.toPrecision(2)} Å`);
   for (const w of r.warnings) out.push(`  warning: ${w}`);
