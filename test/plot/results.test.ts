@@ -208,6 +208,7 @@ describe('plotSpectrum and plotFoundLines', () => {
     expect(present).toEqual(['Si II 6347', 'Si II 6371']);
     const more = datasets(plotSpectrum(r.star, { identification: r.starIdentification, verdicts: ['present', 'possible', 'telluric'] })).lines.map((l) => l.label);
     expect(more).toHaveLength(3);
+    expect(more).toContain('H I 6563'); // Hα, not the weak H2O band it lies in
     expect(title(plotSpectrum(r.star)).text).toBe('LVAC-7: spectrum');
   });
 

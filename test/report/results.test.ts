@@ -128,6 +128,15 @@ describe('summaries of real results', () => {
     expect(shown.length).toBe(r.coolIdentification.elements.filter((e) => e.verdict !== 'not detected').length);
     expect(new Set(shown)).toEqual(new Set(['present', 'possible'].filter((v) => shown.includes(v))));
     expect(s.lines[0]).toMatch(/^Present: .*Fe I/);
+    expect(s.tables[0].columns.map((c) => c.label)).toContain('Why not present');
+    for (const row of s.tables[0].rows) expect(row.reason === '').toBe(row.verdict === 'present');
+  });
+
+  it('identification: says why a species with one line in range is only possible', () => {
+    const s = summarizeIdentification(r.starIdentification, { spectrum: r.star });
+    expect(s.lines[0]).toMatch(/^Present: Si II\. Possible: H I\./);
+    expect(s.lines[1]).toMatch(/^H I is at most possible here: only 1 expected line in range \(present needs 2\)/);
+    expect(s.tables[0].rows.find((row) => row.species === 'H I')?.reason).toMatch(/^only 1 expected line in range/);
   });
 
   it('velocities: the value ± uncertainty in the observer\'s frame, the estimates, every line with its status', () => {
