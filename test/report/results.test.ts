@@ -77,10 +77,15 @@ describe('summaries of real results', () => {
     const sol = r.syntheticSolution;
     const s = summarizeSolution(sol);
     expect(s.lines[0]).toBe(`Accepted: ${sol.message}`);
-    const clipped = sol.lines.filter((l) => l.rejection === 'sigma-clipped').length;
-    expect(clipped).toBeGreaterThan(0);
-    expect(s.lines.join('\n')).toContain(`${clipped} sigma-clipped`);
+    // every reason a line was not used, with its count (this lamp: one unresolved blend and
+    // one saturated line; no good line is clipped since lines are judged by their own σ)
+    const reasons = new Map<string, number>();
+    for (const l of sol.lines) if (!l.used) reasons.set(l.rejection!, (reasons.get(l.rejection!) ?? 0) + 1);
+    expect([...reasons.keys()].sort()).toEqual(['blend', 'saturated']);
+    for (const [reason, n] of reasons) expect(s.lines.join('\n')).toContain(`${n} ${reason}`);
     expect(s.lines.join('\n')).toContain('1 saturated');
+    expect(s.lines.join('\n')).not.toContain('sigma-clipped');
+    expect(s.lines[2]).toMatch(/^RMS of the lines used \(weighted like the fit\): /);
     expect(s.tables[0].rows).toHaveLength(sol.lines.length);
     expect(s.tables[0].rows.filter((row) => row.used === 'yes')).toHaveLength(sol.linesUsed);
   });
