@@ -11,10 +11,10 @@ import { SCENARIOS } from '../elements/simulate.js';
 // stars; rest wavelengths from the shipped line lists (NIST ASD / NIST SRD 108, air).
 //
 // Expected false-alarm count: pure white noise gave 0 detections in 100 spectra of 2000
-// pixels at 5 σ and 19 in 50 at 4 σ (test/lines/find.test.ts, measured here), i.e. about
-// 0.4 per 2000 pixels at 4 σ, both signs. The Gaussian tail ratio Φ(−5)/Φ(−4) = 2.87e-7 /
-// 3.17e-5 = 0.009 (normal distribution table) scales that to 0.0017 emission detections per
-// 2000 pixels at 5 σ. The absorption-only spectra below hold about 20 000 pixels: expected
+// pixels at 5 σ and 13 in 50 at 4 σ (test/lines/find.test.ts, measured here), i.e. about
+// 0.26 per 2000 pixels at 4 σ, both signs. The Gaussian tail ratio Φ(−5)/Φ(−4) = 2.87e-7 /
+// 3.17e-5 = 0.009 (normal distribution table) scales that to 0.0012 emission detections per
+// 2000 pixels at 5 σ. The absorption-only spectra below hold about 30 000 pixels: expected
 // count 0.02, so any emission detection at all is a failure of the method, not noise.
 
 const BALMER = loadLineList('H I').entries;
