@@ -6,6 +6,7 @@ export {
   type MeasuredPeak, type WavelengthHint, type LampReferenceLine, type LampIdentifyOptions, type LineMatch, type IdentifyFailure, type LampIdentifyResult,
 } from './identify.js';
 export * from './lamp-lines.js';
+export * from './list-accuracy.js';
 export * from './lamp.js';
 export { calibrationMessages, MIN_IDENTIFIED_FRACTION, type CalibrationFailure } from './messages.js';
 export { MAX_SOLUTION_ORDER, PIXEL_UNCERTAINTY_FLOOR, DEFAULT_CLIP_SIGMA } from './polynomial.js';

@@ -20,6 +20,8 @@ export interface FitPoint {
   /** 1-σ of the pixel centre (> 0; NaN or missing = unknown, taken as the median of the others). */
   readonly pixelUncertainty: number;
   readonly wavelengthAngstrom: number;
+  /** 1-σ accuracy of the list wavelength, Å (≥ 0; default 0). */
+  readonly wavelengthUncertaintyAngstrom?: number;
 }
 
 /** Why a point was left out of a fit. */
@@ -38,8 +40,10 @@ export interface PolynomialFit {
   readonly residualAngstrom: Float64Array;
   /** Per point: residual in pixels (Å divided by the local dispersion). */
   readonly residualPixels: Float64Array;
-  /** Per point: the 1-σ wavelength weight used, Å. */
+  /** Per point: the 1-σ used as its weight, Å: the centre's error carried into wavelength and the list's accuracy, in quadrature. */
   readonly sigmaAngstrom: Float64Array;
+  /** The robust scale of the normalised residuals r/σ over the used points at the last clipping step, ≥ 1. */
+  readonly residualScale: number;
   readonly chiSquare: number;
   readonly degreesOfFreedom: number;
 }
@@ -48,7 +52,7 @@ export interface PolynomialFit {
 export interface PolynomialFitOptions {
   readonly order: number;
   readonly domain: Domain;
-  /** Reject points whose |residual| exceeds this many robust σ. Default 3. */
+  /** Reject points whose |residual| exceeds this many times their own σ (scaled by the robust spread of the normalised residuals when that exceeds 1). Default 3. */
   readonly clipSigma?: number;
   /** Never reject more than this fraction of the points. Default 0.34. */
   readonly maxRejectFraction?: number;
@@ -100,16 +104,19 @@ function solve(points: readonly FitPoint[], use: readonly boolean[], order: numb
 
 /**
  * Fits λ(p) as a Chebyshev series of the given order by weighted least squares, with
- * iterative sigma clipping of the single worst point while it lies beyond `clipSigma`
- * robust σ.
+ * iterative sigma clipping of the single worst point while its residual lies beyond
+ * `clipSigma` of its own uncertainty.
  *
- * Method: an unweighted first fit gives the local dispersion; each point's wavelength
- * weight is then 1/σ_λ² with σ_λ = |dλ/dp| · √(σ_p² + floor²) (the pixel error carried
- * into wavelength; floor {@link PIXEL_UNCERTAINTY_FLOOR}). The robust σ is
- * max(1.4826 × median |residual|, median σ_λ); the worst point beyond clipSigma of it is
- * dropped and the fit repeated, until none is or the limits on rejections are reached.
- * The covariance is scaled by max(1, χ²/dof), so that it never claims more than the
- * scatter shows.
+ * Method: an unweighted first fit gives the local dispersion; each point's weight is then
+ * 1/σ² with σ = √((|dλ/dp| · √(σ_p² + floor²))² + σ_list²): the centre's error carried into
+ * wavelength (floor {@link PIXEL_UNCERTAINTY_FLOOR}) and the list's own accuracy σ_list
+ * (`wavelengthUncertaintyAngstrom`), in quadrature. Clipping works on the normalised
+ * residuals zᵢ = rᵢ/σᵢ with the robust scale s = max(1, 1.4826 × median |z|) over the used
+ * points (s > 1 when the scatter shows the σ are too small): the point with the largest
+ * |z|/s beyond `clipSigma` is dropped and the fit repeated, until none is or the limits on
+ * rejections are reached. So a faint line whose centre is known to ±0.1 pixel is judged by
+ * that, not by the ±0.01 pixel of the bright ones. The covariance is scaled by
+ * max(1, χ²/dof), so that it never claims more than the scatter shows.
  *
  * @throws {UsageError} when fewer usable points than order + 1, or the order is outside 1–5.
  */
@@ -130,15 +137,17 @@ export function fitPolynomial(points: readonly FitPoint[], options: PolynomialFi
   const known = points.map((p) => p.pixelUncertainty).filter((s) => s > 0 && Number.isFinite(s));
   const typical = known.length ? median(known) : 0.05;
   const sigmaPix = points.map((p) => Math.hypot(p.pixelUncertainty > 0 && Number.isFinite(p.pixelUncertainty) ? p.pixelUncertainty : typical, PIXEL_UNCERTAINTY_FLOOR));
+  const sigmaList = points.map((p) => (p.wavelengthUncertaintyAngstrom !== undefined && p.wavelengthUncertaintyAngstrom > 0 && Number.isFinite(p.wavelengthUncertaintyAngstrom) ? p.wavelengthUncertaintyAngstrom : 0));
   const sigma = new Float64Array(m);
   const residual = new Float64Array(m);
   const residualPx = new Float64Array(m);
   let rejected = 0;
+  let scale = 1;
   let fit = solve(points, use, order, domain, null);
   for (let iter = 0; iter <= m; iter++) {
     for (let i = 0; i < m; i++) {
       const disp = Math.abs(chebyshevDerivative(fit.coefficients, points[i].pixel, domain));
-      sigma[i] = Math.max(disp, 1e-12) * sigmaPix[i];
+      sigma[i] = Math.max(Math.hypot(disp * sigmaPix[i], sigmaList[i]), 1e-12);
     }
     fit = solve(points, use, order, domain, sigma);
     for (let i = 0; i < m; i++) {
@@ -146,12 +155,12 @@ export function fitPolynomial(points: readonly FitPoint[], options: PolynomialFi
       residualPx[i] = residual[i] / Math.max(Math.abs(chebyshevDerivative(fit.coefficients, points[i].pixel, domain)), 1e-12);
     }
     const usedIdx = [...use.keys()].filter((i) => use[i]);
+    scale = Math.max(1, 1.4826 * median(usedIdx.map((i) => Math.abs(residual[i]) / sigma[i])));
     if (usedIdx.length <= minPoints || rejected >= maxReject) break;
-    const scale = Math.max(1.4826 * median(usedIdx.map((i) => Math.abs(residual[i]))), median(usedIdx.map((i) => sigma[i])));
     let worst = -1;
     let worstZ = clip;
     for (const i of usedIdx) {
-      const z = Math.abs(residual[i]) / scale;
+      const z = Math.abs(residual[i]) / sigma[i] / scale;
       if (z > worstZ) { worstZ = z; worst = i; }
     }
     if (worst < 0) break;
@@ -169,6 +178,7 @@ export function fitPolynomial(points: readonly FitPoint[], options: PolynomialFi
     residualAngstrom: residual,
     residualPixels: residualPx,
     sigmaAngstrom: sigma,
+    residualScale: scale,
     chiSquare: fit.chiSquare,
     degreesOfFreedom: dof,
   };

@@ -9,6 +9,7 @@ import type { ProvenanceEntry } from '../spectrum/provenance.js';
 import { SPEED_OF_LIGHT_KM_PER_S } from '../spectrum/constants.js';
 import type { GratingSetup } from './grating.js';
 import type { CalibrationFailure } from './messages.js';
+import { listAccuracyAngstrom } from './list-accuracy.js';
 import { derivativePolynomial, evaluatePolynomial, fitPolynomial, polynomialSigma, type FitPoint } from './polynomial.js';
 
 /** How a solution was made. */
@@ -203,6 +204,8 @@ export interface SolutionInputLine {
   readonly wavelengthAngstrom: number | null;
   readonly species?: string;
   readonly relativeIntensity?: number | null;
+  /** 1-σ accuracy of the list wavelength, Å. Default: {@link listAccuracyAngstrom} of `species`. */
+  readonly listUncertaintyAngstrom?: number;
   /** A reason to keep the line out of the fit from the start. */
   readonly exclude?: Exclude<CalibrationLineRejection, 'sigma-clipped'> | null;
 }
@@ -231,10 +234,12 @@ const robustSpread = (v: number[]) => {
 
 /**
  * Fits a dispersion solution to identified lines: a Chebyshev polynomial of the given
- * order over the pixel domain, weighted by the centres' uncertainties carried into
- * wavelength, with iterative sigma clipping (see `polynomial.ts`), and builds the line
- * table with residuals in Å, pixels and km/s, the RMS in the three units (over the lines
- * used), the resolving power λ/FWHM of the lines used (median and 1.4826 × MAD), and the
+ * order over the pixel domain, weighted by √(σ_centre² + σ_list²) (the centre's uncertainty
+ * carried into wavelength and the list's accuracy, {@link listAccuracyAngstrom}), with
+ * iterative clipping of lines whose residual exceeds 3 times that (see `polynomial.ts`), and builds the line
+ * table with residuals in Å, pixels and km/s, the RMS in the three units over the lines
+ * used, weighted like the fit (√(Σwᵢrᵢ²/Σwᵢ · n/(n − order − 1)), wᵢ = 1/σᵢ²: the plain RMS
+ * when all σ are equal; a faint line known to ±0.1 pixel does not swamp it), the resolving power λ/FWHM of the lines used (median and 1.4826 × MAD), and the
  * solution's own 1-σ error over the domain.
  *
  * @param lines measured lines with their list wavelengths (null = unidentified) and reasons to exclude.
@@ -245,12 +250,17 @@ const robustSpread = (v: number[]) => {
  */
 export function fitDispersionSolution(lines: readonly SolutionInputLine[], options: { order: number; domain: Domain; clipSigma?: number }): SolutionFit {
   const fitIdx = lines.map((l, i) => i).filter((i) => lines[i].wavelengthAngstrom !== null);
-  const points: FitPoint[] = fitIdx.map((i) => ({ pixel: lines[i].pixel, pixelUncertainty: lines[i].pixelUncertainty, wavelengthAngstrom: lines[i].wavelengthAngstrom! }));
+  const points: FitPoint[] = fitIdx.map((i) => ({
+    pixel: lines[i].pixel,
+    pixelUncertainty: lines[i].pixelUncertainty,
+    wavelengthAngstrom: lines[i].wavelengthAngstrom!,
+    wavelengthUncertaintyAngstrom: lines[i].listUncertaintyAngstrom ?? listAccuracyAngstrom(lines[i].species),
+  }));
   const exclude = fitIdx.map((i) => Boolean(lines[i].exclude));
   const fit = fitPolynomial(points, { order: options.order, domain: options.domain, clipSigma: options.clipSigma, exclude });
   const c = SPEED_OF_LIGHT_KM_PER_S;
   const table: SolutionLine[] = [];
-  const usedRes: number[] = [], usedPx: number[] = [], usedKm: number[] = [], rp: number[] = [];
+  const usedRes: number[] = [], usedPx: number[] = [], usedKm: number[] = [], usedW: number[] = [], rp: number[] = [];
   let rejected = 0;
   const pos = new Map(fitIdx.map((i, k) => [i, k]));
   lines.forEach((l, i) => {
@@ -269,6 +279,7 @@ export function fitDispersionSolution(lines: readonly SolutionInputLine[], optio
       usedRes.push(res);
       usedPx.push(res / disp);
       usedKm.push((c * res) / fitted);
+      usedW.push(k !== undefined ? 1 / fit.sigmaAngstrom[k] ** 2 : 1);
       if (R !== null && Number.isFinite(R)) rp.push(R);
     }
     table.push({
@@ -288,7 +299,9 @@ export function fitDispersionSolution(lines: readonly SolutionInputLine[], optio
       rejection,
     });
   });
-  const rms = (v: number[]) => Math.sqrt(v.reduce((s, x) => s + x * x, 0) / Math.max(1, v.length - (options.order + 1)));
+  // weighted like the fit: √(Σwr²/Σw · n/(n − order − 1)), the plain RMS when all σ are equal
+  const sumW = usedW.reduce((a, w) => a + w, 0);
+  const rms = (v: number[]) => Math.sqrt((v.reduce((a, x, j) => a + usedW[j] * x * x, 0) / sumW) * (v.length / Math.max(1, v.length - (options.order + 1))));
   const n = options.order + 1;
   const cov: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => fit.covariance[i * n + j]));
   return {

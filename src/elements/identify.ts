@@ -23,6 +23,7 @@ import {
   resolutionEstimatedMessage,
   shiftTestSkippedMessage,
   velocityTooLargeMessage,
+  verdictReasonMessage,
 } from './messages.js';
 import { elementOfSpecies, isAtomicSpecies } from './species.js';
 import { bernoulliSumUpperTail, sigmaFromTailProbability } from './statistics.js';
@@ -37,6 +38,7 @@ import type {
   ReferenceLine,
   SpeciesEvidence,
   Verdict,
+  VerdictReason,
   WavelengthInterval,
 } from './types.js';
 
@@ -77,6 +79,20 @@ export const IDENTIFY_DEFAULTS = Object.freeze({
   detectWeakest: 0.6,
   /** Chance of finding a line of a list without usable intensities when the species is present. */
   detectUnranked: 0.6,
+  /**
+   * A weak telluric band (its list note says weak: scattered water lines of a few per cent,
+   * from memory) cannot make an absorption line deeper than this fraction of the continuum.
+   */
+  weakTelluricMaxDepth: 0.1,
+  /**
+   * Telluric lines are far narrower than amateur resolution (pressure-broadened water and
+   * oxygen lines, ~0.05–0.1 Å, from memory), so one appears at the instrumental width λ/R: a
+   * line in a weak band broader than this many λ/R (two blended lines and fit scatter) and
+   * narrower than half the band is not the band's.
+   */
+  telluricMaxWidthResolutionElements: 2.5,
+  /** A telluric candidate's raw score is at most this fraction of the best candidate of a present or possible species. */
+  telluricShareBelowAtomic: 0.5,
 });
 
 /** Options of {@link identifyLines}. */
@@ -298,7 +314,13 @@ function median(values: number[]): number {
  * 5. Verdicts (defaults): `present` when at least 2 expected lines match, Λ ≥ ln 20, the
  *    Bonferroni-adjusted FAP ≤ 0.01, the shift-test FAP ≤ 0.05, and (for ranked lists) the
  *    strongest expected line is matched; `possible` when at least one matches, Λ > 0 and the
- *    unadjusted FAP ≤ 0.05; otherwise `not detected`.
+ *    unadjusted FAP ≤ 0.05; otherwise `not detected`. Each species lists the unmet conditions
+ *    of the next better verdict (`reasons`, most basic first) and says them in words (`reason`).
+ * 6. Candidates of each found line: the list features within its tolerance, scored by closeness,
+ *    list intensity and the species' verdict; for an absorption line inside a telluric band
+ *    also the band, when the line can be the band's (any line in a strong band; in a weak band
+ *    one at most 10 % deep and unresolved or half the band wide), ranked below the best
+ *    candidate of a present or possible species.
  *
  * Nothing here modifies its inputs.
  *
@@ -594,19 +616,21 @@ export function identifyLines(
     const adj = Math.min(1, fap * Math.max(1, speciesTested));
     const shiftFap = trials > 0 && n > 0 ? (1 + shiftExceed[si]) / (1 + trials) : null;
     const strongestMatched = w.ranked && n > 0 ? r.flags[0] : null;
-    let verdict: Verdict = 'not detected';
-    if (
-      n > 0 &&
-      m >= thresholds.presentMinLines &&
-      r.lambda >= thresholds.presentLogLikelihoodRatio &&
-      adj <= thresholds.presentFalseAlarm &&
-      (shiftFap === null || shiftFap <= thresholds.presentShiftFalseAlarm) &&
-      strongestMatched !== false
-    ) {
-      verdict = 'present';
-    } else if (n > 0 && m >= 1 && r.lambda > 0 && fap <= thresholds.possibleFalseAlarm) {
-      verdict = 'possible';
-    }
+    // the conditions of `present`, then of `possible`, most basic first
+    const presentUnmet: VerdictReason[] = [];
+    if (n < thresholds.presentMinLines) presentUnmet.push(n === 0 ? 'no-expected-lines' : 'too-few-expected-lines');
+    else if (m < thresholds.presentMinLines) presentUnmet.push('too-few-matched-lines');
+    if (strongestMatched === false) presentUnmet.push('strongest-line-missing');
+    if (!(r.lambda >= thresholds.presentLogLikelihoodRatio)) presentUnmet.push('weak-evidence');
+    if (!(adj <= thresholds.presentFalseAlarm)) presentUnmet.push('false-alarm-too-likely');
+    if (shiftFap !== null && !(shiftFap <= thresholds.presentShiftFalseAlarm)) presentUnmet.push('shift-test-failed');
+    const possibleUnmet: VerdictReason[] = [];
+    if (n === 0) possibleUnmet.push('no-expected-lines');
+    else if (m < 1) possibleUnmet.push('no-line-matched');
+    if (n > 0 && !(r.lambda > 0)) possibleUnmet.push('weak-evidence');
+    if (n > 0 && !(fap <= thresholds.possibleFalseAlarm)) possibleUnmet.push('false-alarm-too-likely');
+    const verdict: Verdict = presentUnmet.length === 0 ? 'present' : possibleUnmet.length === 0 ? 'possible' : 'not detected';
+    const reasons = verdict === 'present' ? [] : verdict === 'possible' ? presentUnmet : possibleUnmet;
     const matched: MatchedFeature[] = [];
     const missing: number[] = [];
     w.expected.forEach((f, j) => {
@@ -624,7 +648,7 @@ export function identifyLines(
       if (findMatch(f, byKind)) other++;
     }
     const sig = sigmaFromTailProbability(adj);
-    return Object.freeze({
+    const evidence = {
       species: w.species,
       element: elementOfSpecies(w.species),
       verdict,
@@ -640,7 +664,11 @@ export function identifyLines(
       shiftFalseAlarmProbability: shiftFap,
       significanceSigma: Number.isFinite(sig) ? Math.max(0, sig) : sig > 0 ? Infinity : 0,
       matched: Object.freeze(matched),
-    });
+      reasons: Object.freeze(reasons),
+      reason: null as string | null,
+    };
+    evidence.reason = reasons.length ? reasons.map((x) => verdictReasonMessage(x, evidence, thresholds)).join('; ') : null;
+    return Object.freeze(evidence);
   });
   const rank: Record<Verdict, number> = { present: 0, possible: 1, 'not detected': 2 };
   evidence.sort(
@@ -659,6 +687,21 @@ export function identifyLines(
   let maxSpread = 0;
   for (const f of allFeatures) maxSpread = Math.max(maxSpread, f.spreadAngstrom);
   const speciesFactor: Record<Verdict, number> = { present: 1, possible: 0.3, 'not detected': 0.05 };
+  /**
+   * Whether a found absorption line inside a band can be that band's: any line in a strong
+   * band; in a weak band, a line no deeper than `weakTelluricMaxDepth` and either unresolved
+   * (FWHM ≤ `telluricMaxWidthResolutionElements` · λ/R) or as wide as half the band or more
+   * (the band seen whole at low resolution). Unknown depth or width does not count against it.
+   */
+  const telluricPlausible = (o: ObservedLine, band: TelluricBand): boolean => {
+    if (band.strength === 'strong') return true;
+    if (o.depth !== undefined && Number.isFinite(o.depth) && o.depth > IDENTIFY_DEFAULTS.weakTelluricMaxDepth) return false;
+    const f = o.fwhmAngstrom;
+    if (f === undefined || !Number.isFinite(f)) return true;
+    const element = o.wavelengthAngstrom / resolvingPower;
+    const bandWidth = (band.endAngstrom - band.startAngstrom) * telluricFactor;
+    return f <= IDENTIFY_DEFAULTS.telluricMaxWidthResolutionElements * element || f >= 0.5 * bandWidth;
+  };
 
   const lines: LineIdentification[] = observed.map((o, index) => {
     const own = tol(o.wavelengthAngstrom, o.wavelengthUncertaintyAngstrom, 0);
@@ -694,7 +737,11 @@ export function identifyLines(
       });
     }
     const band = o.kind === 'absorption' ? inBand(o.wavelengthAngstrom) : null;
-    if (band) {
+    if (band && telluricPlausible(o, band)) {
+      // a telluric band ranks below an atomic line of a species judged present or possible
+      let bandScore: number = band.strength === 'weak' ? 0.1 : 0.5;
+      const atomic = raw.reduce((m, r) => (r.c.verdict === 'present' || r.c.verdict === 'possible' ? Math.max(m, r.s) : m), 0);
+      if (atomic > 0) bandScore = Math.min(bandScore, IDENTIFY_DEFAULTS.telluricShareBelowAtomic * atomic);
       const mid = 0.5 * (band.startAngstrom + band.endAngstrom) * telluricFactor;
       raw.push({
         c: {
@@ -709,7 +756,7 @@ export function identifyLines(
           relativeIntensity: null,
           verdict: 'telluric',
         },
-        s: band.strength === 'weak' ? 0.1 : 0.5,
+        s: bandScore,
       });
     }
     const total = raw.reduce((s, r) => s + r.s, 0);

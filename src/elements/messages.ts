@@ -1,3 +1,5 @@
+import type { EvidenceThresholds, SpeciesEvidence, VerdictReason } from './types.js';
+
 /**
  * Every user-facing message of the elements area, in one place and one format: lower-case
  * start, says what is wrong and what is expected, no trailing full stop.
@@ -72,4 +74,46 @@ export function mediumAssumedMessage(): string {
 /** Warning: some found lines were not fitted. */
 export function notFittedMessage(n: number, total: number): string {
   return `${n} of ${total} found lines not fitted (blend too large or fit did not converge); their centres come from the finder`;
+}
+
+function probability(p: number): string {
+  return p >= 0.001 ? p.toFixed(3) : p.toExponential(1);
+}
+
+/**
+ * One reason of a verdict in words, e.g. `only 1 expected line in range (present needs 2)`.
+ *
+ * @param reason the unmet condition.
+ * @param e the species' evidence (its verdict decides which verdict's thresholds are meant).
+ * @param t the thresholds used.
+ * @returns the sentence, lower-case, without a full stop.
+ * @example
+ * verdictReasonMessage('too-few-expected-lines', hydrogen, DEFAULT_EVIDENCE_THRESHOLDS);
+ * // 'only 1 expected line in range (present needs 2)'
+ */
+export function verdictReasonMessage(reason: VerdictReason, e: SpeciesEvidence, t: EvidenceThresholds): string {
+  const lines = (n: number) => `${n} expected line${n === 1 ? '' : 's'}`;
+  const forPresent = e.verdict === 'possible';
+  switch (reason) {
+    case 'no-expected-lines':
+      return 'no expected line in the covered range';
+    case 'no-line-matched':
+      return `none of ${lines(e.linesExpected)} matched`;
+    case 'too-few-expected-lines':
+      return `only ${lines(e.linesExpected)} in range (present needs ${t.presentMinLines})`;
+    case 'too-few-matched-lines':
+      return `only ${e.linesMatched} of ${lines(e.linesExpected)} matched (present needs ${t.presentMinLines})`;
+    case 'strongest-line-missing':
+      return `strongest expected line (${e.missingWavelengthsAngstrom[0]?.toFixed(2) ?? '?'} Å) not found`;
+    case 'weak-evidence':
+      return forPresent
+        ? `log-likelihood ratio ${e.logLikelihoodRatio.toFixed(1)} below ln ${Math.round(Math.exp(t.presentLogLikelihoodRatio))} = ${t.presentLogLikelihoodRatio.toFixed(1)}`
+        : `log-likelihood ratio ${e.logLikelihoodRatio.toFixed(1)} not above 0`;
+    case 'false-alarm-too-likely':
+      return forPresent
+        ? `adjusted false-alarm probability ${probability(e.adjustedFalseAlarmProbability)} above ${t.presentFalseAlarm}`
+        : `false-alarm probability ${probability(e.falseAlarmProbability)} above ${t.possibleFalseAlarm}`;
+    case 'shift-test-failed':
+      return `shift-test false-alarm probability ${probability(e.shiftFalseAlarmProbability ?? 1)} above ${t.presentShiftFalseAlarm}`;
+  }
 }

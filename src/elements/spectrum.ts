@@ -149,6 +149,7 @@ export function identifySpectrum(spectrum: Spectrum, options: IdentifySpectrumOp
           kind,
           fwhmAngstrom: ok ? c.fwhm.value : d.fwhm,
           strength: ok ? Math.abs(c.depth.value) : NaN,
+          ...(ok && kind === 'absorption' && Number.isFinite(c.depth.value) ? { depth: c.depth.value } : {}),
           equivalentWidthAngstrom: ok ? c.equivalentWidth.value : NaN,
           significance: d.significance,
           fitted: ok,

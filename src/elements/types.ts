@@ -21,6 +21,11 @@ export interface ObservedLine {
   readonly strength?: number;
   /** Detection significance in sigma; reported, not used for matching. */
   readonly significance?: number;
+  /**
+   * Depth below the continuum as a fraction of it (absorption lines, 0–1), if measured. With
+   * `fwhmAngstrom` it decides whether a line inside a weak telluric band can be that band's.
+   */
+  readonly depth?: number;
 }
 
 /**
@@ -50,6 +55,26 @@ export interface WavelengthInterval {
 
 /** How sure the identification of a species is. */
 export type Verdict = 'present' | 'possible' | 'not detected';
+
+/**
+ * A condition of the next better verdict that a species does not meet (see
+ * `DEFAULT_EVIDENCE_THRESHOLDS`). For a `possible` species, the conditions of `present`:
+ * `too-few-expected-lines` (fewer expected lines in range than `present` needs, e.g. one
+ * Balmer line), `too-few-matched-lines`, `strongest-line-missing`, `weak-evidence` (log-
+ * likelihood ratio below the threshold), `false-alarm-too-likely` (adjusted false-alarm
+ * probability above it), `shift-test-failed`. For a `not detected` species, those of
+ * `possible`: `no-expected-lines`, `no-line-matched`, `weak-evidence` (not above 0),
+ * `false-alarm-too-likely` (unadjusted probability above the threshold).
+ */
+export type VerdictReason =
+  | 'no-expected-lines'
+  | 'no-line-matched'
+  | 'too-few-expected-lines'
+  | 'too-few-matched-lines'
+  | 'strongest-line-missing'
+  | 'weak-evidence'
+  | 'false-alarm-too-likely'
+  | 'shift-test-failed';
 
 /** One candidate identification of a found line. */
 export interface LineCandidate {
@@ -87,7 +112,7 @@ export interface LineIdentification {
   readonly kind: LineKind;
   /** Match tolerance used at this line (k·σ with the line's own centre uncertainty), Å. */
   readonly toleranceAngstrom: number;
-  /** True when the line is an absorption line inside a telluric band. */
+  /** True when the line is an absorption line inside a telluric band (whether or not the band is among its candidates). */
   readonly telluric: boolean;
   /** True when the centre's uncertainty exceeds one resolution element λ/R: the line is not used and gets no candidates. */
   readonly centreTooUncertain: boolean;
@@ -139,6 +164,10 @@ export interface SpeciesEvidence {
   readonly significanceSigma: number;
   /** The matched expected lines. */
   readonly matched: readonly MatchedFeature[];
+  /** Why the verdict is not the next better one: the unmet conditions, most basic first; empty for `present`. */
+  readonly reasons: readonly VerdictReason[];
+  /** The reasons in words, joined by `; ` (e.g. `only 1 expected line in range (present needs 2)`), or null for `present`. */
+  readonly reason: string | null;
 }
 
 /** Thresholds of the verdicts (see DEVELOPERS.md, "Element identification"). */

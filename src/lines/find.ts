@@ -3,7 +3,13 @@
  *
  * Method (our own combination of standard steps):
  * 1. Continuum: a running median of the flux over `continuumWindowPixels` pixels (the ends
- *    extended by odd reflection, so that a sloping continuum is followed to the last pixel).
+ *    extended by odd reflection, so that a sloping continuum is followed to the last pixel),
+ *    moved where lines crowd to the level of the continuum pixels: the mode of the data
+ *    about it (densest quarter, then a mean shift within ±2.5 σ) at knots a quarter window
+ *    apart, only away from the side the window's lines are on. In a crowded absorption
+ *    spectrum the median sits inside the lines and the gaps between them, at the true
+ *    continuum, would be found as emission lines (and the other way round in a crowded lamp
+ *    spectrum).
  * 2. Noise per pixel: the spectrum's uncertainty when present, otherwise the DER_SNR noise
  *    of the flux (Stoehr et al. 2008) for every pixel.
  * 3. Matched filter: at each pixel and for Gaussian line shapes of FWHM 1.5, 1.5√2, 3, …
@@ -12,7 +18,8 @@
  *    S is a standard normal variable at each pixel and scale).
  * 4. Peeling: the largest |S| over all pixels and scales is a line if |S| ≥ `significance`
  *    (unless a finer filter splits it into two peaks with a significant dip between them:
- *    a blend, of which the stronger fine peak is taken first);
+ *    a blend, of which the stronger fine peak is taken first, split again while a finer
+ *    filter still shows a blend there);
  *    its centre (parabola through S), FWHM (the best-fitting Gaussian on a 2^(1/8) grid from
  *    half to twice the filter's, not under `minFwhmPixels`) and amplitude (weighted least squares) are refined, the Gaussian is
  *    subtracted from the flux, S is updated nearby, and the search repeats. Left-overs of
@@ -21,10 +28,13 @@
  *    unless it is a much narrower line of the same sign with at least 5 % of its amplitude
  *    (a metal line in a Balmer line, reported);
  *    and, next to a line ten times stronger and within three of its FWHM, one of opposite
- *    sign or at least 0.3 of its FWHM wide. So a line fainter than a tenth of a close
- *    neighbour of similar width is not found (a known limit).
- * 5. Twice: the second pass takes the running median of the flux minus the lines of the
- *    first, so that broad lines do not pull the continuum down.
+ *    sign or at least 0.3 of its FWHM wide; and, within the FWHM of an earlier subtracted
+ *    Gaussian that was not reported, one of the opposite sign that is weaker or narrower (the
+ *    over-subtraction left by a Gaussian taken for a Voigt line or for a blend's trough).
+ *    So a line fainter than a tenth of a close neighbour of similar width is not found (a
+ *    known limit).
+ * 5. Twice: the second pass takes the continuum of the flux minus the lines of the first,
+ *    so that broad lines do not pull the continuum down.
  * 6. Windows: lines whose ±2 FWHM ranges overlap are kept together (a blend); a window spans
  *    ±3 FWHM around its outermost lines.
  *
@@ -156,6 +166,151 @@ export function runningMedian(values: ArrayLike<number>, width: number): Float64
   return out;
 }
 
+/** Fraction of a window's pixels in the densest interval that seeds the continuum level. */
+const MODE_FRACTION = 0.25;
+/** Half-width of the averaging interval around the level, in units of the noise per pixel. */
+const MODE_HALF_WIDTH_SIGMA = 2.5;
+/** Knots of the level per continuum window. */
+const MODE_KNOTS_PER_WINDOW = 4;
+
+/**
+ * Which tail of the values is the longer one (the 10 % quantile's distance below the median
+ * against the 90 % quantile's above it): the side the window's lines are on, `low` for
+ * absorption lines.
+ */
+function longerTail(e: Float64Array): 'low' | 'high' {
+  const s = Float64Array.from(e).sort();
+  const q = (p: number) => s[Math.round(p * (s.length - 1))];
+  return q(0.5) - q(0.1) > q(0.9) - q(0.5) ? 'low' : 'high';
+}
+
+/**
+ * The level of the continuum pixels among values e whose lines lie on side `lines` (a sorted
+ * copy is made): the densest quarter of the values among the half away from the lines (the
+ * shortest interval holding 25 % of all values, above the median for absorption lines) seeds
+ * the level, then the mean of the values within ±2.5 noise (at least the seed interval's
+ * width) of it, repeated until it stops moving (a mean shift to the nearest mode). Lines
+ * cannot push the flux past the continuum, so the values pile up just inside it (the
+ * continuum pixels and the lines' far wings), and the seed finds that pile even where lines
+ * cover most of the window.
+ */
+function modeLevel(e: Float64Array, noise: number, lines: 'low' | 'high'): number {
+  const s = Float64Array.from(e).sort();
+  const m = s.length;
+  const k = Math.max(3, Math.ceil(MODE_FRACTION * m));
+  if (m < 2 * k) return s[m >> 1];
+  let best = lines === 'low' ? m >> 1 : 0;
+  const last = lines === 'low' ? m - k : (m >> 1) - k + 1;
+  for (let i = best + 1; i <= last; i++) if (s[i + k - 1] - s[i] < s[best + k - 1] - s[best]) best = i;
+  const prefix = new Float64Array(m + 1);
+  for (let i = 0; i < m; i++) prefix[i + 1] = prefix[i] + s[i];
+  const lower = (x: number) => { let lo = 0, hi = m; while (lo < hi) { const mid = (lo + hi) >> 1; if (s[mid] < x) lo = mid + 1; else hi = mid; } return lo; };
+  const upper = (x: number) => { let lo = 0, hi = m; while (lo < hi) { const mid = (lo + hi) >> 1; if (s[mid] <= x) lo = mid + 1; else hi = mid; } return lo; };
+  let c = (prefix[best + k] - prefix[best]) / k;
+  const b = Math.max(MODE_HALF_WIDTH_SIGMA * noise, s[best + k - 1] - s[best]);
+  for (let it = 0; it < 20; it++) {
+    const i0 = lower(c - b), i1 = upper(c + b);
+    if (i1 <= i0) break;
+    const next = (prefix[i1] - prefix[i0]) / (i1 - i0);
+    const done = Math.abs(next - c) <= 1e-3 * b;
+    c = next;
+    if (done) break;
+  }
+  return c;
+}
+
+/** Rounds of the level correction (each on the data less the previous estimate). */
+const MODE_ROUNDS = 2;
+
+/**
+ * The continuum for line finding: the running median ({@link continuumMedian}), moved to the
+ * level of the continuum pixels where lines crowd. Where lines cover much of a window the
+ * median sits inside them: below the continuum in a crowded absorption spectrum, above it in
+ * a crowded emission spectrum (a lamp at low resolution), and the gaps between lines, which
+ * reach the true continuum, would look like lines of the other sign. The continuum pixels
+ * still form the densest cluster of values (their spread is the noise; the lines' pixels
+ * spread over the line depths), so at knots every quarter of a window the level of that
+ * cluster among the data less the current estimate ({@link modeLevel}) corrects it, linearly
+ * interpolated between knots, twice (the second round sharpens the cluster). The correction
+ * only moves the continuum away from the lines (up where the window's longer tail is low,
+ * down where it is high) and never past the median on the lines' side, so a forest of lines
+ * without a clear continuum keeps at worst the median. `noise` is the 1-σ noise per pixel.
+ */
+function continuumLevel(values: Float64Array, noise: Float64Array, width: number): Float64Array {
+  const n = values.length;
+  const med = continuumMedian(values, width);
+  if (n < 5 || width < 5) return med;
+  const { knots, windows } = knotWindows(n, width);
+  const knotNoise = windows.map(([a, b]) => medianOf(noise.subarray(a, b)));
+  const fromMedian = Float64Array.from(values, (v, k) => v - med[k]);
+  const tails = windows.map(([a, b]) => longerTail(fromMedian.subarray(a, b)));
+  const cont = Float64Array.from(med);
+  for (let round = 0; round < MODE_ROUNDS; round++) {
+    const e = Float64Array.from(values, (v, k) => v - cont[k]);
+    const level = interpolateKnots(knots, windows.map(([a, b], j) => modeLevel(e.subarray(a, b), knotNoise[j], tails[j])), n);
+    const up = interpolateKnots(knots, tails.map((t) => (t === 'low' ? 1 : -1)), n);
+    for (let k = 0; k < n; k++) {
+      // away from the lines only: up where they are absorption lines, down where emission
+      const next = cont[k] + level[k];
+      cont[k] = up[k] >= 0 ? Math.max(med[k], next) : Math.min(med[k], next);
+    }
+  }
+  return cont;
+}
+
+/** Knots a quarter window apart (the last at n − 1) and the window [start, end) around each. */
+function knotWindows(n: number, width: number): { knots: number[]; windows: (readonly [number, number])[] } {
+  const h = Math.floor(width / 2);
+  const step = Math.max(1, Math.floor(width / MODE_KNOTS_PER_WINDOW));
+  const knots: number[] = [];
+  for (let k = 0; k < n - 1; k += step) knots.push(k);
+  knots.push(n - 1);
+  return { knots, windows: knots.map((k) => [Math.max(0, k - h), Math.min(n, k + h + 1)] as const) };
+}
+
+/** Values at knot indices (increasing, the last n − 1), linearly interpolated to every index 0 … n − 1. */
+function interpolateKnots(knots: readonly number[], values: readonly number[], n: number): Float64Array {
+  const out = new Float64Array(n);
+  for (let j = 0; j < knots.length; j++) {
+    const j1 = Math.min(j + 1, knots.length - 1);
+    const k0 = knots[j], k1 = knots[j1];
+    if (k1 === k0) { out[k0] = values[j]; break; }
+    for (let k = k0; k <= k1; k++) out[k] = values[j] + ((k - k0) / (k1 - k0)) * (values[j1] - values[j]);
+  }
+  return out;
+}
+
+/** The minority-sign test's envelope: the 10 % and 90 % quantiles of the flux about the continuum… */
+const ENVELOPE_QUANTILE = 0.1;
+/** …less the same quantile of Gaussian noise, 1.2816 σ (normal distribution table). */
+const ENVELOPE_NOISE_QUANTILE = 1.2816;
+
+/**
+ * How far above the continuum the tops of the gaps between absorption lines reach (`raise`,
+ * where the window's longer tail is low) or how far below it the floor between emission
+ * lines lies (`lower`, where it is high), per pixel, flux units, ≥ 0: the 90 % (10 %)
+ * quantile of the flux less the continuum, less the same quantile of the noise, at knots a
+ * quarter window apart, linearly interpolated. Where the continuum is well defined both are
+ * within the noise of zero; in a forest of lines with no continuum pixels left they measure
+ * how far the continuum may be off.
+ */
+function envelope(d: Float64Array, noise: Float64Array, width: number): { raise: Float64Array; lower: Float64Array } {
+  const n = d.length;
+  const { knots, windows } = knotWindows(n, width);
+  const at = windows.map(([a, b]) => {
+    const s = Float64Array.from(d.subarray(a, b)).sort();
+    const q = (p: number) => s[Math.round(p * (s.length - 1))];
+    const sig = medianOf(noise.subarray(a, b));
+    const low = q(0.5) - q(ENVELOPE_QUANTILE) > q(1 - ENVELOPE_QUANTILE) - q(0.5);
+    return low
+      ? { raise: Math.max(0, q(1 - ENVELOPE_QUANTILE) - ENVELOPE_NOISE_QUANTILE * sig), lower: 0 }
+      : { raise: 0, lower: Math.max(0, -q(ENVELOPE_QUANTILE) - ENVELOPE_NOISE_QUANTILE * sig) };
+  });
+  const raise = interpolateKnots(knots, at.map((a) => a.raise), n);
+  const lower = interpolateKnots(knots, at.map((a) => a.lower), n);
+  return { raise, lower };
+}
+
 /**
  * Running median whose ends follow a sloping continuum: beyond each end the data are
  * extended by odd reflection about a straight line through the medians of the two halves
@@ -245,6 +400,17 @@ function isLeftover(e: Found, p: number, f: number, amp: number, continuumHalfWi
   return false;
 }
 
+/**
+ * Whether a detection is a correction of an earlier subtracted Gaussian that was not itself
+ * reported (a piece of a broad line's non-Gaussian profile, or the trough of a blend taken by a
+ * broad filter): of the opposite sign, weaker or narrower, and within the larger of the two
+ * FWHMs. A Gaussian subtracted from a line of another shape, or from several lines, over-
+ * subtracts somewhere, and the bump left there is not a line of the other kind.
+ */
+function isCorrection(e: Found, p: number, f: number, amp: number): boolean {
+  return Math.sign(e.amplitude) !== Math.sign(amp) && (Math.abs(amp) < Math.abs(e.amplitude) || f < e.fwhm) && Math.abs(e.p - p) < Math.max(e.fwhm, f);
+}
+
 /** A blend splits when the dip between two fine-filter peaks is below this fraction of the lower peak… */
 const SPLIT_DIP_FRACTION = 0.7;
 /** …and at least this many σ below it. */
@@ -283,9 +449,29 @@ function splitBlend(scales: Scale[], bs: number, bi: number, threshold: number):
   return null;
 }
 
+/**
+ * Whether a detection of significance S (filter `sc` at pixel i) stays at or above the
+ * threshold measured from the far side of the window's envelope on its own side
+ * ({@link envelope}): an emission line must rise above the gap tops of a crowded absorption
+ * spectrum, an absorption line dip below the floor between a crowded emission spectrum's
+ * lines. Elsewhere the envelope is within the noise of the continuum and changes little.
+ */
+function clearsEnvelope(sc: Scale, i: number, w: Float64Array, significance: number, threshold: number, env: { raise: Float64Array; lower: Float64Array }): boolean {
+  const shift = significance > 0 ? env.raise : env.lower;
+  const n = w.length;
+  let num = 0, den = 0;
+  for (let k = Math.max(-sc.half, -i); k <= Math.min(sc.half, n - 1 - i); k++) {
+    const g = sc.kernel[k + sc.half];
+    num += g * w[i + k] * shift[i + k];
+    den += g * g * w[i + k];
+  }
+  return den > 0 ? Math.abs(significance) - num / Math.sqrt(den) >= threshold : true;
+}
+
 /** One peeling pass over the continuum-subtracted flux r (modified). Returns every subtracted Gaussian. */
 function peel(
   r: Float64Array, w: Float64Array, fwhms: number[], threshold: number, maxLines: number, continuumHalfWindow: number,
+  env: { raise: Float64Array; lower: Float64Array },
 ): Found[] {
   const n = r.length;
   const scales: Scale[] = fwhms.map((f) => {
@@ -309,8 +495,10 @@ function peel(
     if (bs < 0 || best < threshold) break;
     // A blend looks like one broad line to a broad filter: if a finer filter shows two
     // separate peaks there, take the stronger fine peak instead (the other comes later).
-    const split = splitBlend(scales, bs, bi, threshold);
-    if (split) { bs = split.scale; bi = split.index; best = Math.abs(scales[bs].s[bi]); }
+    // Repeated: a peak of a finer filter may itself be a blend at a finer scale still.
+    for (let split = splitBlend(scales, bs, bi, threshold); split; split = splitBlend(scales, bs, bi, threshold)) {
+      bs = split.scale; bi = split.index; best = Math.abs(scales[bs].s[bi]);
+    }
     const sc = scales[bs];
     const sv = sc.s;
     // Sub-pixel centre: parabola through S at bi−1, bi, bi+1.
@@ -342,8 +530,8 @@ function peel(
     if (!Number.isFinite(p) || !Number.isFinite(f) || !Number.isFinite(amp)) break;
     const ext = Math.ceil(MODEL_HALF_FWHM * f);
     const significance = sv[bi];
-    const leftover = found.some((e) => e.reported && isLeftover(e, p, f, amp, continuumHalfWindow));
-    const rep = !leftover && Math.sign(amp) === Math.sign(significance);
+    const leftover = found.some((e) => (e.reported ? isLeftover(e, p, f, amp, continuumHalfWindow) : isCorrection(e, p, f, amp)));
+    const rep = !leftover && Math.sign(amp) === Math.sign(significance) && clearsEnvelope(sc, bi, w, significance, threshold, env);
     found.push({ p, fwhm: f, amplitude: amp, significance, reported: rep });
     if (rep) reported++;
     const k0 = Math.max(0, Math.floor(p) - ext), k1 = Math.min(n - 1, Math.ceil(p) + ext);
@@ -412,11 +600,12 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
 
   let found: Found[] = [];
   if (n >= 5) {
-    // Pass 1: continuum = running median of the flux.
-    let cont = continuumMedian(flux, cw);
+    // Pass 1: continuum from the flux (running median moved to the continuum pixels' level).
+    const noise = Float64Array.from(w, (x) => 1 / Math.sqrt(x));
+    let cont = continuumLevel(flux, noise, cw);
     let r = Float64Array.from(flux, (v, k) => v - cont[k]);
-    found = peel(r, w, fwhms, threshold, maxLines, cw / 2);
-    // Pass 2: running median of the flux minus the lines found.
+    found = peel(r, w, fwhms, threshold, maxLines, cw / 2, envelope(r, noise, cw));
+    // Pass 2: the same from the flux minus the lines found.
     const lines = new Float64Array(n);
     for (const e of found) {
       const ext = Math.ceil(MODEL_HALF_FWHM * e.fwhm);
@@ -424,9 +613,10 @@ export function findLines(spectrum: Spectrum, options: FindLinesOptions = {}): F
         lines[k] += e.amplitude * Math.exp((-FOUR_LN2 * (k - e.p) ** 2) / (e.fwhm * e.fwhm));
       }
     }
-    cont = continuumMedian(Float64Array.from(flux, (v, k) => v - lines[k]), cw);
+    const lineFree = Float64Array.from(flux, (v, k) => v - lines[k]);
+    cont = continuumLevel(lineFree, noise, cw);
     r = Float64Array.from(flux, (v, k) => v - cont[k]);
-    found = peel(r, w, fwhms, threshold, maxLines, cw / 2);
+    found = peel(r, w, fwhms, threshold, maxLines, cw / 2, envelope(r, noise, cw));
   }
 
   // Positions: compressed index → original index and spectral coordinate.

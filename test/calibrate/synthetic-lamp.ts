@@ -90,6 +90,12 @@ export interface LampSpectrumOptions {
   readonly saturationCounts?: number;
   /** Keep only this many of the brightest lines (default all). */
   readonly brightest?: number;
+  /**
+   * 1-σ error of the list, Å: each line sits at its list wavelength plus a Gaussian deviate
+   * of this size (its own seeded generator), so that the list is off by that much, as real
+   * lists are (data/linelists/CHECKS.md). Default 0.
+   */
+  readonly listErrorAngstrom?: number;
   readonly seed: number;
 }
 
@@ -97,6 +103,7 @@ export interface LampSpectrumOptions {
 export interface SyntheticLamp {
   readonly spectrum: Spectrum;
   readonly curve: TrueCurve;
+  /** The lines: list wavelength, and the pixel where the line really is. */
   readonly lines: readonly PlacedLine[];
   /** Lines whose true peak exceeds the saturation level. */
   readonly saturated: readonly PlacedLine[];
@@ -109,7 +116,12 @@ export interface SyntheticLamp {
  * uncertainty column holds the true noise σ.
  */
 export function makeLampSpectrum(o: LampSpectrumOptions): SyntheticLamp {
-  const placed = placeLines(o.lamp, o.curve, o.pixels, o.fwhmPixels);
+  let placed = placeLines(o.lamp, o.curve, o.pixels, o.fwhmPixels);
+  if (o.listErrorAngstrom) {
+    const err = mulberry32(o.seed + 7919);
+    const sd = o.listErrorAngstrom;
+    placed = placed.map((l) => ({ ...l, pixel: inverseCurve(o.curve, l.wavelengthAngstrom + sd * gaussian(err), -0.5, o.pixels - 0.5) })).filter((l) => Number.isFinite(l.pixel));
+  }
   const lines = o.brightest === undefined ? placed : [...placed].sort((a, b) => b.intensity - a.intensity).slice(0, o.brightest).sort((a, b) => a.pixel - b.pixel);
   const rand = mulberry32(o.seed);
   const ref = o.referenceIntensity ?? Math.max(...lines.map((l) => l.intensity));

@@ -13,6 +13,7 @@ import { collectingLogger } from '../../src/logger.js';
 import type { Spectrum } from '../../src/spectrum/spectrum.js';
 import { SCENARIOS } from '../elements/simulate.js';
 import { syntheticSpectrum } from '../elements/synthetic-spectrum.js';
+import { repoPath } from '../helpers/paths.js';
 
 function capture(): CommandIO & { out: string; err: string } {
   const io = {
@@ -52,8 +53,9 @@ describe('lineshift elements', () => {
     expect(r.elements[0].linesExpected).toBeGreaterThanOrEqual(r.elements[0].linesMatched);
     expect(Object.keys(r.elements[0]).sort()).toEqual(
       ['adjustedFalseAlarmProbability', 'element', 'falseAlarmProbability', 'linesExpected', 'linesMatched', 'logLikelihoodRatio', 'missingWavelengthsAngstrom',
-        'otherLinesMatched', 'rankedByIntensity', 'shiftFalseAlarmProbability', 'significance', 'species', 'strongestMatched', 'verdict'].sort(),
+        'otherLinesMatched', 'rankedByIntensity', 'reason', 'reasons', 'shiftFalseAlarmProbability', 'significance', 'species', 'strongestMatched', 'verdict'].sort(),
     );
+    expect(r.elements[0]).toMatchObject({ reasons: [], reason: null });
     expect(r.elements.filter((e) => e.verdict === 'present').map((e) => e.species)).toEqual(['Ne I']);
     // verdict order: present, possible, not detected
     const rank = { present: 0, possible: 1, 'not detected': 2 } as const;
@@ -76,6 +78,23 @@ describe('lineshift elements', () => {
     expect(io.out).toMatch(/\n {2}Ne I +present +\d+\/\d+/);
     expect(io.out).toContain('found lines (best identification):');
     expect(io.out).not.toContain('Fe I');
+  });
+
+  it('says why a species is only possible, and puts Hα down to H I, not to the weak water band around it', async () => {
+    // data/samples/lvac7-star.fits: invented A-type-like star, 6300–6812 Å, Hα and Si II 6347/6371
+    const file = repoPath('data', 'samples', 'lvac7-star.fits');
+    const io = capture();
+    expect(await runCli(['elements', file, '--velocity', '-23.4'], io)).toBe(0);
+    expect(io.out).toContain('why not present');
+    expect(io.out).toMatch(/\n {2}H I +possible +1\/1 .* only 1 expected line in range \(present needs 2\)/);
+    expect(io.out).toMatch(/\n {2}6562\.\d\d ± \d\.\d\d +absorption +H I \(possible\)/);
+    const json = capture();
+    expect(await runCli(['elements', file, '--velocity', '-23.4', '--json'], json)).toBe(0);
+    const r = JSON.parse(json.out) as ElementsReport;
+    expect(r.elements.find((e) => e.species === 'H I')).toMatchObject({ verdict: 'possible', reasons: expect.arrayContaining(['too-few-expected-lines']) });
+    const ha = r.lines.find((l) => Math.abs(l.wavelengthAngstrom - 6562.3) < 2)!;
+    expect(ha.telluric).toBe(true);
+    expect(ha.identifications.map((c) => c.species)).toEqual(['H I']);
   });
 
   it('estimates R from the line widths when not given, with a warning on stderr', async () => {

@@ -20,6 +20,8 @@ export interface SyntheticSpectrum {
   readonly spectrum: Spectrum;
   readonly truth: readonly string[];
   readonly velocityKmPerS: number;
+  /** The lines put in: observed wavelength (Å) and peak amplitude (continuum units), by wavelength. */
+  readonly lines: readonly { readonly wavelengthAngstrom: number; readonly amplitude: number }[];
 }
 
 /**
@@ -68,7 +70,7 @@ export function syntheticSpectrum(sc: Scenario, resolvingPower: number, snr: num
     flux[i] = f + sigma * gaussian(rand);
   }
   const spectrum = createSpectrum({ wavelength, flux, uncertainty: new Float64Array(n).fill(sigma), unit: 'angstrom', medium: 'air' });
-  return { spectrum, truth: sc.species, velocityKmPerS: v };
+  return { spectrum, truth: sc.species, velocityKmPerS: v, lines: lines.map((l) => ({ wavelengthAngstrom: l.w, amplitude: l.a })) };
 }
 
 /** A pure-noise spectrum (flat continuum 1, S/N `snr`) over a range, same sampling. */

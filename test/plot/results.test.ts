@@ -110,9 +110,14 @@ describe('plotCalibration', () => {
   it('in km/s, matches the table\'s residuals in km/s', () => {
     const rows = datasets(plotCalibration(sol, { residualUnit: 'kmPerS' })).lines.filter((row) => row.used);
     const usedLines = sol.lines.filter((l) => l.used);
-    // The plot divides by the list wavelength, the table by the fitted one: they differ by the
-    // residual itself, |Δλ|/λ < 1e-5 for any line a calibration keeps, so 1e-5 relative.
-    rows.forEach((row, i) => expect(Math.abs((row.y as number) - usedLines[i].residualKmPerS!)).toBeLessThanOrEqual(1e-5 * Math.abs(usedLines[i].residualKmPerS!)));
+    // The plot divides by the list wavelength, the table by the fitted one (λ_list − Δλ): they
+    // differ by the factor 1 − Δλ/λ_list, i.e. relatively by the line's own |Δλ|/λ (< 2e-5 here).
+    rows.forEach((row, i) => {
+      const l = usedLines[i];
+      const relative = Math.abs(l.residualAngstrom!) / l.wavelengthAngstrom!;
+      expect(relative).toBeLessThan(2e-5);
+      expect(Math.abs((row.y as number) - l.residualKmPerS!)).toBeLessThanOrEqual(relative * Math.abs(l.residualKmPerS!) * (1 + 1e-9) + 1e-12);
+    });
   });
 
   it('fits the axis to the lines used and writes the value of a rejected line beyond it', () => {
@@ -208,6 +213,7 @@ describe('plotSpectrum and plotFoundLines', () => {
     expect(present).toEqual(['Si II 6347', 'Si II 6371']);
     const more = datasets(plotSpectrum(r.star, { identification: r.starIdentification, verdicts: ['present', 'possible', 'telluric'] })).lines.map((l) => l.label);
     expect(more).toHaveLength(3);
+    expect(more).toContain('H I 6563'); // Hα, not the weak H2O band it lies in
     expect(title(plotSpectrum(r.star)).text).toBe('LVAC-7: spectrum');
   });
 

@@ -77,10 +77,15 @@ describe('summaries of real results', () => {
     const sol = r.syntheticSolution;
     const s = summarizeSolution(sol);
     expect(s.lines[0]).toBe(`Accepted: ${sol.message}`);
-    const clipped = sol.lines.filter((l) => l.rejection === 'sigma-clipped').length;
-    expect(clipped).toBeGreaterThan(0);
-    expect(s.lines.join('\n')).toContain(`${clipped} sigma-clipped`);
+    // every reason a line was not used, with its count (this lamp: one unresolved blend and
+    // one saturated line; no good line is clipped since lines are judged by their own σ)
+    const reasons = new Map<string, number>();
+    for (const l of sol.lines) if (!l.used) reasons.set(l.rejection!, (reasons.get(l.rejection!) ?? 0) + 1);
+    expect([...reasons.keys()].sort()).toEqual(['blend', 'saturated']);
+    for (const [reason, n] of reasons) expect(s.lines.join('\n')).toContain(`${n} ${reason}`);
     expect(s.lines.join('\n')).toContain('1 saturated');
+    expect(s.lines.join('\n')).not.toContain('sigma-clipped');
+    expect(s.lines[2]).toMatch(/^RMS of the lines used \(weighted like the fit\): /);
     expect(s.tables[0].rows).toHaveLength(sol.lines.length);
     expect(s.tables[0].rows.filter((row) => row.used === 'yes')).toHaveLength(sol.linesUsed);
   });
@@ -128,9 +133,18 @@ describe('summaries of real results', () => {
     expect(shown.length).toBe(r.coolIdentification.elements.filter((e) => e.verdict !== 'not detected').length);
     expect(new Set(shown)).toEqual(new Set(['present', 'possible'].filter((v) => shown.includes(v))));
     expect(s.lines[0]).toMatch(/^Present: .*Fe I/);
+    expect(s.tables[0].columns.map((c) => c.label)).toContain('Why not present');
+    for (const row of s.tables[0].rows) expect(row.reason === '').toBe(row.verdict === 'present');
     // A measured velocity given to the identification is shown to 0.01 km/s, not with every digit of the double.
     const shifted = summarizeIdentification({ ...r.coolIdentification, velocityKmPerS: 16.016610253665352 });
-    expect(shifted.lines[1]).toContain(', list velocity 16.02 km/s, ');
+    expect(shifted.lines.some((l) => l.includes(', list velocity 16.02 km/s, '))).toBe(true);
+  });
+
+  it('identification: says why a species with one line in range is only possible', () => {
+    const s = summarizeIdentification(r.starIdentification, { spectrum: r.star });
+    expect(s.lines[0]).toMatch(/^Present: Si II\. Possible: H I\./);
+    expect(s.lines[1]).toMatch(/^H I is at most possible here: only 1 expected line in range \(present needs 2\)/);
+    expect(s.tables[0].rows.find((row) => row.species === 'H I')?.reason).toMatch(/^only 1 expected line in range/);
   });
 
   it('velocities: the value ± uncertainty in the observer\'s frame, the estimates, every line with its status', () => {

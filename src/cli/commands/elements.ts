@@ -21,6 +21,10 @@ export interface ElementsReportSpecies {
   rankedByIntensity: boolean;
   otherLinesMatched: number;
   missingWavelengthsAngstrom: number[];
+  /** Why the verdict is not the next better one (empty for present). */
+  reasons: SpeciesEvidence['reasons'][number][];
+  /** The reasons in words, or null for present. */
+  reason: string | null;
 }
 
 /** One found line in `lineshift elements --json`. */
@@ -112,6 +116,8 @@ export function elementsReport(r: SpectrumIdentification, file: string): Element
       rankedByIntensity: e.rankedByIntensity,
       otherLinesMatched: e.otherLinesMatched,
       missingWavelengthsAngstrom: [...e.missingWavelengthsAngstrom],
+      reasons: [...e.reasons],
+      reason: e.reason,
     })),
     lines: r.lines.map((l) => {
       const f = r.found[l.index];
@@ -152,7 +158,7 @@ function table(rows: string[][]): string[] {
   return rows.map((row) => '  ' + row.map((cell, j) => cell.padEnd(widths[j])).join('  ').trimEnd());
 }
 
-/** The human-readable report: heading, species table, not-detected list, found lines with their best identification. */
+/** The human-readable report: heading, species table (with why a species is not present), not-detected list, found lines with their best identification. */
 export function formatElementsReport(r: SpectrumIdentification, file: string): string {
   const out = [
     `${file}: ${r.found.length} line${r.found.length === 1 ? '' : 's'} found; R = ${Math.round(r.resolvingPower)} (${r.resolvingPowerSource}); velocity ${r.velocityKmPerS} km/s; ${r.medium} wavelengths; ${r.speciesTested} spectra tested${r.telluricApplied ? '; telluric bands flagged' : ''}`,
@@ -162,10 +168,11 @@ export function formatElementsReport(r: SpectrumIdentification, file: string): s
   if (shown.length) {
     out.push(
       ...table([
-        ['species', 'verdict', 'lines', 'false alarm', 'adjusted', 'σ', 'strongest line'],
+        ['species', 'verdict', 'lines', 'false alarm', 'adjusted', 'σ', 'strongest line', 'why not present'],
         ...shown.map((e) => [
           e.species, e.verdict, `${e.linesMatched}/${e.linesExpected}`, fmtProb(e.falseAlarmProbability), fmtProb(e.adjustedFalseAlarmProbability),
           Number.isFinite(e.significanceSigma) ? e.significanceSigma.toFixed(1) : '>40', e.strongestMatched === null ? '—' : e.strongestMatched ? 'found' : 'missing',
+          e.reason ?? '',
         ]),
       ]),
     );
@@ -207,7 +214,10 @@ uncertainty, the calibration RMS and 0.15 of a resolution element, and weighs th
 for each spectrum (Fe I, Fe II, …): how many of its strong lines are found, how many are
 missing where they should be visible, and the probability that chance coincidences do as
 well. Verdicts: present (at least two strong lines, the strongest among them, adjusted
-false-alarm probability ≤ 0.01), possible, not detected. Without --resolving-power it is
+false-alarm probability ≤ 0.01), possible, not detected; for a possible species the table
+says which condition of present it misses (e.g. only one of its lines in range). A telluric
+band ranks below an atomic line of a present or possible species, and a line too deep or
+too broad for a weak band is not put down to it. Without --resolving-power it is
 estimated from the fitted line widths. Telluric O2 and H2O bands are flagged in absorption
 spectra. With --json: {elements: [...], lines: [...]}, elements most certain first.`,
   options: [

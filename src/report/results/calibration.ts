@@ -8,7 +8,7 @@ import { capRows, plural, type ResultSummary } from './summary.js';
 
 /**
  * A dispersion solution for people: accepted or not (and why), method, order and medium,
- * the RMS of the lines used (Å, pixels, km/s), lines measured, identified, used and
+ * the RMS of the lines used (Å, pixels, km/s; weighted like the fit), lines measured, identified, used and
  * rejected (by reason), resolving power, the solution's own wavelength error and its
  * warnings; a table of the lines.
  *
@@ -25,7 +25,7 @@ export function summarizeSolution(solution: DispersionSolution): ResultSummary {
     `Method ${solution.method}${lamp}; Chebyshev series of order ${solution.order} over pixels ${formatNumber(solution.domain.min)}–${formatNumber(solution.domain.max)}; ${solution.medium} wavelengths.`,
   ];
   if (solution.rmsAngstrom !== null) {
-    lines.push(`RMS of the lines used: ${formatSignificant(solution.rmsAngstrom, 3)} Å = ${formatSignificant(solution.rmsPixels ?? NaN, 3)} pixel = ${formatSignificant(solution.rmsKmPerS ?? NaN, 3)} km/s.`);
+    lines.push(`RMS of the lines used (weighted like the fit): ${formatSignificant(solution.rmsAngstrom, 3)} Å = ${formatSignificant(solution.rmsPixels ?? NaN, 3)} pixel = ${formatSignificant(solution.rmsKmPerS ?? NaN, 3)} km/s.`);
   }
   const reasons = new Map<string, number>();
   for (const l of solution.lines) if (!l.used && l.rejection) reasons.set(l.rejection, (reasons.get(l.rejection) ?? 0) + 1);

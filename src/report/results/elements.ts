@@ -19,10 +19,11 @@ export function bestCandidateLabel(line: LineIdentification): string {
 
 /**
  * An element identification for people: which spectra are present or possible (and how
- * many were tested), the resolving power, velocity and medium used; a table of the
- * species with a verdict other than `not detected` (matched/expected lines, log-likelihood
- * ratio, false-alarm probabilities, significance) and a table of the found lines with
- * their best candidate.
+ * many were tested; a species that cannot be present because too few of its lines lie in
+ * range gets a sentence saying so), the resolving power, velocity and medium used; a table
+ * of the species with a verdict other than `not detected` (matched/expected lines,
+ * log-likelihood ratio, false-alarm probabilities, significance, why not present) and a
+ * table of the found lines with their best candidate.
  *
  * @param result from `identifySpectrum` or `identifyLines`; not modified.
  * @param context the spectrum (for the title).
@@ -36,6 +37,7 @@ export function summarizeIdentification(result: IdentificationResult | SpectrumI
   const identified = result.lines.filter((l) => l.candidates.length > 0).length;
   const lines = [
     `Present: ${names(present)}. Possible: ${names(possible)}. ${plural(result.speciesTested, 'spectrum', 'spectra')} tested; the others not detected.`,
+    ...possible.filter((e) => e.reasons[0] === 'too-few-expected-lines').map((e) => `${e.species} is at most possible here: ${e.reason}.`),
     `${plural(result.lines.length, 'found line')}, ${identified} with at least one candidate; resolving power ${formatSignificant(result.resolvingPower, 3)} (${result.resolvingPowerSource}), list velocity ${formatNumber(result.velocityKmPerS, 2)} km/s, ${result.medium} wavelengths.`,
   ];
   const species: Table = {
@@ -49,6 +51,7 @@ export function summarizeIdentification(result: IdentificationResult | SpectrumI
       { key: 'fap', label: 'FAP (adjusted)' },
       { key: 'shift', label: 'Shift-test FAP' },
       { key: 'sigma', label: 'Significance', unit: 'σ', digits: 1 },
+      { key: 'reason', label: 'Why not present' },
     ],
     rows: [...present, ...possible].map((e): Record<string, TableCell> => ({
       species: e.species,
@@ -59,6 +62,7 @@ export function summarizeIdentification(result: IdentificationResult | SpectrumI
       fap: formatProbability(e.adjustedFalseAlarmProbability),
       shift: e.shiftFalseAlarmProbability === null ? 'not run' : formatProbability(e.shiftFalseAlarmProbability),
       sigma: e.significanceSigma,
+      reason: e.reason ?? '',
     })),
   };
   const capped = capRows(result.lines, 'lines');
