@@ -284,6 +284,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
       blocks: [
         { kind: 'paragraph', text: 'This section compares the results with the invented values the data were generated from (data/demo/truth.json). It checks the whole chain — calibration, interpolation, line fits, barycentric correction, period search and orbit fit — against our own truth, not against the real world.' },
         { kind: 'table', table: orbitTable },
+        { kind: 'paragraph', text: 'Pulls are (fitted − true)/σ. The nightly velocities share no error beyond the calibration, so over 24 nights the mean pull scatters by 1/√24 ≈ 0.2 from season to season, and γ follows it. A season that comes out 2 σ low, as this seed does, is a chance of about 1 in 20: bench/demo-velocity-budget.ts splits each night\'s error into calibration, noise and method, and regenerates the season with other seeds to show that the mean pull then centres on zero.' },
         { kind: 'facts', items: [
           ['Velocities per night', `χ² = ${p.chiSquare.toFixed(1)} for ${p.count} nights (probability of a larger value ${formatProbability(p.chiSquareProbability)}); mean pull ${formatNumber(p.meanPull, 2)}, RMS pull ${p.rmsPull.toFixed(2)}, largest |pull| ${p.maxAbsPull.toFixed(2)}`],
           ['BJD_TDB', `largest difference ${Math.max(...cmp.nights.map((n) => Math.abs(n.bjdDifferenceSeconds))).toFixed(4)} s (the same header keys and library as the generator)`],
