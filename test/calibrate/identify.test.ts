@@ -103,6 +103,7 @@ describe('identification: edge cases and inputs', () => {
 
   it('merges list lines closer than the resolution into one intensity-weighted blend, unless one dominates tenfold', () => {
     const list = lampLineList('mercury');
+    // Source: data/linelists/Hg_I.csv (NIST ASD Ritz wavelengths, NIST Handbook intensities).
     // Hg I 5789.6805 (no intensity: counts as the weakest, 25) and 5790.663 (60), NIST Handbook scale: merged at 2 Å.
     const merged = mergeUnresolvedLines(list, 2).find((l) => l.components === 2 && l.wavelengthAngstrom > 5780 && l.wavelengthAngstrom < 5800)!;
     expect(merged.blend).toBe(true);

@@ -139,6 +139,7 @@ describe('lineshift apply', () => {
     const io = capture(dir);
     expect(await runCli(['apply', 'star.fits', '--solution', 'sol1.json', '--after', 'sol2.json', '--out', 'star-cal2.csv', '--json'], io)).toBe(0);
     const r = JSON.parse(io.out) as ApplyReport;
+    // No outside source: the weight is arithmetic on the header times below.
     // Lamps at 03:01:20 and 04:01:20 (mid-exposures), star mid-exposure 03:31:00: weight 29:40 of 60:00 = 0.4944.
     expect(r.midpointUtc).toBe('2026-05-14T03:31:00.000');
     expect(r.weightAfter!).toBeCloseTo(1780 / 3600, 6);

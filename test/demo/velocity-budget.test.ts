@@ -65,6 +65,7 @@ describe('the demo velocity budget (against the invented truth)', () => {
       expect(lines.lines.filter((l) => l.status === 'used').length, e.night).toBe(9);
       for (const l of lines.lines) {
         if (l.species === 'H I' || !l.velocityKmPerS) continue;
+        // Reference: the generator's own noise-free star on its true wavelengths (no outside source).
         // Measured ≤ 0.0013 km/s (the metal lines are 1 Å wide on a nearly flat normalised continuum).
         expect(Math.abs(l.velocityKmPerS.value - v), `${e.night} ${l.species} ${l.restWavelengthAngstrom}`).toBeLessThan(0.003);
       }

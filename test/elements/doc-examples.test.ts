@@ -4,6 +4,8 @@ import {
   selectSpecies, sigmaFromTailProbability, telluricBandAt, telluricBandsFromLines, usableCoverage,
 } from '../../src/index.js';
 
+// Source of 0.00135: the one-sided tail of the standard normal distribution beyond 3σ (normal
+// table, from memory); the other values are the docs' own.
 // The results written in the @example lines of the elements area's TSDoc, checked so the docs stay true.
 describe('elements TSDoc examples', () => {
   it('state the values the functions return', () => {

@@ -13,7 +13,7 @@ import { SCENARIOS } from '../elements/simulate.js';
 // Expected false-alarm count: pure white noise gave 0 detections in 100 spectra of 2000
 // pixels at 5 σ and 13 in 50 at 4 σ (test/lines/find.test.ts, measured here), i.e. about
 // 0.26 per 2000 pixels at 4 σ, both signs. The Gaussian tail ratio Φ(−5)/Φ(−4) = 2.87e-7 /
-// 3.17e-5 = 0.009 (normal distribution table) scales that to 0.0012 emission detections per
+// 3.17e-5 = 0.009 (standard normal distribution table; source: from memory) scales that to 0.0012 emission detections per
 // 2000 pixels at 5 σ. The absorption-only spectra below hold about 30 000 pixels: expected
 // count 0.02, so any emission detection at all is a failure of the method, not noise.
 

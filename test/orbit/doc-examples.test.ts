@@ -4,6 +4,8 @@ import {
   parseVelocityTable, projectedSemiMajorAxisKm, propagateUncertainty, radialVelocityKmPerS, solveKepler, trueAnomaly, trueAnomalyFromEccentric,
 } from '../../src/index.js';
 
+// Sources: E = 5.554589° for M = 5°, e = 0.1 is Meeus, Astronomical Algorithms (2nd ed.), example 30.a
+// (from memory); the other values are the docs' own, worked by hand from the formulas they state.
 // The results written in the @example lines of the orbit area's TSDoc, checked so the docs stay true.
 describe('orbit TSDoc examples', () => {
   it('state the values the functions return', () => {

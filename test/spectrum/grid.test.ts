@@ -23,6 +23,7 @@ describe('linearGrid', () => {
   });
 
   it('does not let an inexact step drop the last centre', () => {
+    // Reference: IEEE 754 double rounding (common practice for grid builders).
     // 0.1 is not exact in binary; (6600 − 6500)/0.1 = 999.9999999999… must still give 1001 centres.
     expect(linearGrid({ start: 6500, end: 6600, step: 0.1 }).wavelength.length).toBe(1001);
   });
