@@ -1,15 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { BarycentricReport } from '../../src/cli/commands/barycentric.js';
 import { runCli } from '../../src/cli/run.js';
-import { collectingLogger } from '../../src/logger.js';
 import { astropy } from '../velocity/astropy-fixture.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = { out: '', err: '', isTTY: false, cwd: process.cwd(), logger: collectingLogger(),
-    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
-  return io;
-}
+const capture = () => captureIO();
 
 describe('lineshift barycentric', () => {
   it('prints the corrections, BJD_TDB, HJD and the inputs as understood (--json), matching astropy 5.2.1', async () => {

@@ -13,14 +13,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateDemo, readScenario, type DemoTruth } from '../../data/demo/generate.js';
 import type { BatchReport } from '../../src/cli/commands/batch.js';
 import { progressLine } from '../../src/cli/batch/progress.js';
-import type { CommandIO } from '../../src/cli/command.js';
 import { runCli } from '../../src/cli/run.js';
 import { readSolution } from '../../src/calibrate/solution-json.js';
 import { readSpectrum } from '../../src/io/read.js';
-import { collectingLogger } from '../../src/logger.js';
 import { readVelocityTable } from '../../src/orbit/table.js';
 import { distProblem } from '../notebook/run.js';
 import { repoPath } from '../helpers/paths.js';
+import { captureIO } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'lineshift-batch-'));
 const frames = join(dir, 'frames');
@@ -39,11 +38,7 @@ beforeAll(() => {
   rmSync(join(frames, 'lvac12'), { recursive: true });
 });
 
-function capture(tty = false): CommandIO & { out: string; err: string } {
-  const io = { out: '', err: '', isTTY: tty, cwd: dir, logger: collectingLogger(),
-    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
-  return io;
-}
+const capture = (tty = false) => captureIO({ cwd: dir, isTTY: tty });
 
 /** Every file under a folder, relative to it. */
 function filesUnder(root: string): string[] {

@@ -6,26 +6,18 @@ import { existsSync, mkdtempSync, readFileSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { ApplyReport } from '../../src/cli/commands/apply.js';
 import type { CalibrateReport } from '../../src/cli/commands/calibrate.js';
 import { runCli } from '../../src/cli/run.js';
 import { writeFitsSpectrum } from '../../src/io/fits/write.js';
 import { readSpectrum } from '../../src/io/read.js';
-import { collectingLogger } from '../../src/logger.js';
 import { Header } from '../../src/spectrum/header.js';
 import { createSpectrum } from '../../src/spectrum/spectrum.js';
 import { STANDARD_CASES, cubicCurve, makeLampSpectrum } from '../calibrate/synthetic-lamp.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(cwd: string): CommandIO & { out: string; err: string } {
-  const io = {
-    out: '', err: '', isTTY: false, cwd, logger: collectingLogger(),
-    stdout(t: string) { io.out += t; },
-    stderr(t: string) { io.err += t; },
-  };
-  return io;
-}
+const capture = (cwd: string) => captureIO({ cwd });
 
 const c = STANDARD_CASES.neArRed;
 let dir = '';

@@ -6,7 +6,6 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { ElementsReport } from '../../src/cli/commands/elements.js';
 import { runCli } from '../../src/cli/run.js';
 import { collectingLogger } from '../../src/logger.js';
@@ -14,15 +13,9 @@ import type { Spectrum } from '../../src/spectrum/spectrum.js';
 import { SCENARIOS } from '../elements/simulate.js';
 import { syntheticSpectrum } from '../elements/synthetic-spectrum.js';
 import { repoPath } from '../helpers/paths.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = {
-    out: '', err: '', isTTY: false, cwd: process.cwd(), logger: collectingLogger(),
-    stdout(t: string) { io.out += t; },
-    stderr(t: string) { io.err += t; },
-  };
-  return io;
-}
+const capture = () => captureIO();
 
 const dir = mkdtempSync(join(tmpdir(), 'lineshift-elements-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

@@ -6,24 +6,16 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { FindReport } from '../../src/cli/commands/find.js';
 import type { FitReport } from '../../src/cli/commands/fit.js';
 import { formatMeasured } from '../../src/cli/commands/fit.js';
 import { runCli } from '../../src/cli/run.js';
 import { fitLine } from '../../src/fit/line-fit.js';
 import { readSpectrum } from '../../src/io/read.js';
-import { collectingLogger } from '../../src/logger.js';
 import { normal } from '../helpers/random.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = {
-    out: '', err: '', isTTY: false, cwd: process.cwd(), logger: collectingLogger(),
-    stdout(t: string) { io.out += t; },
-    stderr(t: string) { io.err += t; },
-  };
-  return io;
-}
+const capture = () => captureIO();
 
 const dir = mkdtempSync(join(tmpdir(), 'lineshift-fit-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

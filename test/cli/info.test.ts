@@ -5,20 +5,13 @@
 import { spawnSync } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { SpectrumInfo } from '../../src/cli/commands/info.js';
 import { runCli } from '../../src/cli/run.js';
 import { collectingLogger } from '../../src/logger.js';
 import { repoPath } from '../helpers/paths.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = {
-    out: '', err: '', isTTY: false, cwd: process.cwd(), logger: collectingLogger(),
-    stdout(t: string) { io.out += t; },
-    stderr(t: string) { io.err += t; },
-  };
-  return io;
-}
+const capture = () => captureIO();
 
 const fits = (name: string) => repoPath('test', 'fixtures', 'fits', name);
 const sample = (name: string) => repoPath('data', 'samples', name);

@@ -2,20 +2,14 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import { formatMeasured } from '../../src/cli/commands/orbit.js';
 import { runCli } from '../../src/cli/run.js';
-import { collectingLogger } from '../../src/logger.js';
 import { radialVelocityKmPerS, type KeplerianOrbit } from '../../src/orbit/keplerian.js';
 import { createVelocityTable, formatVelocityTableCsv, formatVelocityTableJson } from '../../src/orbit/table.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string; warnings: ReturnType<typeof collectingLogger> } {
-  const warnings = collectingLogger();
-  const io = { out: '', err: '', isTTY: false, cwd: process.cwd(), logger: warnings, warnings,
-    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
-  return io;
-}
+const capture = () => captureIO();
 
 // LVAC-7's invented orbit (data/demo/scenario.json), with an invented K₂ = 63 km/s for the double-lined case.
 const LVAC7: KeplerianOrbit = { periodDays: 12.37, eccentricity: 0.28, omegaDeg: 112, semiAmplitudeKmPerS: 41.3, systemicVelocityKmPerS: -17.8, periastronTimeBjdTdb: 2461140.63, semiAmplitude2KmPerS: 63 };

@@ -1,14 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { silentLogger } from '../../src/logger.js';
-import type { Command, CommandIO } from '../../src/cli/command.js';
+import type { Command } from '../../src/cli/command.js';
 import { runCli } from '../../src/cli/run.js';
 import { InputError } from '../../src/errors.js';
+import { captureIO } from '../helpers/cli.js';
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = { out: '', err: '', isTTY: false, cwd: process.cwd(), logger: silentLogger,
-    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
-  return io;
-}
+const capture = () => captureIO();
 
 const echo: Command = {
   name: 'echo', summary: 'test command', usage: 'X [--n N]', description: '',

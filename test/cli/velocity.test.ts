@@ -2,26 +2,21 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import type { CommandIO } from '../../src/cli/command.js';
 import type { VelocityReport } from '../../src/cli/commands/velocity.js';
 import { runCli } from '../../src/cli/run.js';
 import { writeFitsSpectrum } from '../../src/io/fits/write.js';
 import { writeTextSpectrum } from '../../src/io/text/write.js';
-import { collectingLogger } from '../../src/logger.js';
 import { Header, type HeaderCard } from '../../src/spectrum/header.js';
 import { createSpectrum, deriveSpectrum } from '../../src/spectrum/spectrum.js';
 import { applyVelocityCorrection } from '../../src/velocity/doppler.js';
 import { makeStar, type StarOptions } from '../helpers/star.js';
 import { astropy } from '../velocity/astropy-fixture.js';
+import { captureIO } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'lineshift-velocity-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function capture(): CommandIO & { out: string; err: string } {
-  const io = { out: '', err: '', isTTY: false, cwd: dir, logger: collectingLogger(),
-    stdout(t: string) { io.out += t; }, stderr(t: string) { io.err += t; } };
-  return io;
-}
+const capture = () => captureIO({ cwd: dir });
 
 /** Time, target and site of astropy case 2 (test/fixtures/barycentric-astropy.json, astropy 5.2.1), as header cards. */
 const ref = astropy.cases[2];
