@@ -6,7 +6,9 @@
  * 1. **Reference lines.** List lines closer than the resolution (the median measured FWHM
  *    times the candidate dispersion) cannot be told apart: they are merged into one
  *    intensity-weighted line flagged `blend` (unless one component carries ≥ 10× the
- *    intensity of the rest, whose wavelength is then used).
+ *    intensity of the rest, whose wavelength is then used). Only lines of one element can
+ *    dominate: list intensities are given per element (NIST Handbook), and a lamp's mixture
+ *    sets how bright each element's lines come out, so two elements merged are always a blend.
  * 2. **Triplet ratios.** For three lines at pixels p₁ < p₂ < p₃ the ratio
  *    r = (p₂ − p₁)/(p₃ − p₁) does not depend on the dispersion or the offset (for a locally
  *    linear dispersion), so it can be compared with the same ratio of three list lines.
@@ -195,7 +197,8 @@ export function mergeUnresolvedLines(list: LineList, widthAngstrom: number): Lam
     const weights = group.map((x) => (x.relativeIntensity !== null && x.relativeIntensity > 0 ? x.relativeIntensity : weakest));
     const total = weights.reduce((a, b) => a + b, 0);
     const top = weights.indexOf(Math.max(...weights));
-    const dominated = group.length === 1 || weights[top] >= 10 * (total - weights[top]);
+    const oneSpecies = group.every((x) => x.species === group[0].species);
+    const dominated = group.length === 1 || (oneSpecies && weights[top] >= 10 * (total - weights[top]));
     const wavelength = dominated ? group[top].wavelengthAngstrom : group.reduce((s, x, k) => s + x.wavelengthAngstrom * weights[k], 0) / total;
     const intensities = group.map((x) => x.relativeIntensity).filter((v): v is number => v !== null);
     out.push({

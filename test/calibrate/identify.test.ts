@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { identifyLampLines, mergeUnresolvedLines, type LampIdentifyOptions } from '../../src/calibrate/identify.js';
-import { lampLineList, parseLineListCsv } from '../../src/lines/linelist.js';
+import { lampLineList, mergeLineLists, parseLineListCsv } from '../../src/lines/linelist.js';
 import { STANDARD_CASES, makePeakList } from './synthetic-lamp.js';
 
 type CaseName = keyof typeof STANDARD_CASES;
@@ -113,5 +113,19 @@ describe('identification: edge cases and inputs', () => {
     const m = mergeUnresolvedLines(own, 1.5);
     expect(m.map((l) => [l.wavelengthAngstrom, l.components, l.blend])).toEqual([[5000, 2, false], [6000.5, 2, true], [7000, 1, false]]);
     expect(m[0].relativeIntensity).toBe(1100);
+  });
+
+  it('never takes one element as dominating another: intensities of different lists are not on one scale', () => {
+    // The NIST Handbook gives intensities per element, and a lamp's mixture sets how bright each
+    // element's lines come out, so a tenfold list ratio between two elements says nothing about
+    // the measured blend. Invented lists, same shape as above.
+    const x = parseLineListCsv('wavelength_air_angstrom,relative_intensity\n5000.0,1000\n', 'X_I.csv');
+    const y = parseLineListCsv('wavelength_air_angstrom,relative_intensity\n5001.0,100\n', 'Y_I.csv');
+    const both = mergeLineLists([x, y]);
+    const m = mergeUnresolvedLines(both, 1.5);
+    expect(m).toHaveLength(1);
+    expect(m[0].blend).toBe(true);
+    expect(m[0].species).toBe('X I+Y I');
+    expect(m[0].wavelengthAngstrom).toBeCloseTo((5000 * 1000 + 5001 * 100) / 1100, 9);
   });
 });

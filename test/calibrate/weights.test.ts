@@ -83,18 +83,20 @@ describe('fitDispersionSolution: weights √(σ_centre² + σ_list²) and clippi
 });
 
 describe('lamp calibration at high S/N keeps its good lines', () => {
-  it('the Ne–Ar lamp of the result gallery (60 000 counts, saturating at 30 000): every identified line used but one blend and one saturated line', () => {
+  it('the Ne–Ar lamp of the result gallery (60 000 counts, saturating at 30 000): every identified line used but three blends and one saturated line', () => {
     // test/plot/result-fixtures.ts: neArRed, seed 4. Before lines were judged by their own σ:
     // 24 of 34 used, 8 sigma-clipped (faint lines 0.5–2.2 of their own σ off), RMS against the
-    // true curve 0.0293 pixel; now 32 of 34 and 0.0230 pixel (the saturated line at the red
-    // end, kept out, leaves the last 40 pixels to extrapolation).
+    // true curve 0.0293 pixel; now 30 of 34 and 0.0272 pixel (the saturated line at the red
+    // end, kept out, leaves the last 40 pixels to extrapolation). Two of the three blends are
+    // Ne I + Ar I pairs within one resolution element: lines of different elements never count
+    // as dominated (their list intensities are not on one scale), so they are kept out too.
     const c = STANDARD_CASES.neArRed;
     const lamp = makeLampSpectrum({ ...c, peakCounts: 60_000, seed: 4, saturationCounts: 30_000 });
     const s = calibrateLamp(lamp.spectrum, { lamp: 'neon,argon' });
     expect(s.ok, s.message).toBe(true);
     const notUsed = s.lines.filter((l) => !l.used).map((l) => l.rejection).sort();
-    expect(notUsed).toEqual(['blend', 'saturated']);
-    expect(s.linesUsed).toBe(s.linesIdentified - 2);
+    expect(notUsed).toEqual(['blend', 'blend', 'blend', 'saturated']);
+    expect(s.linesUsed).toBe(s.linesIdentified - 4);
     const rv = rmsVersusTruth(s, c.curve, c.pixels);
     console.log(`gallery lamp: ${s.linesUsed} of ${s.linesMeasured} lines used, ${s.linesRejected} clipped; RMS against the true curve ${rv.toFixed(4)} pixel; weighted RMS ${s.rmsPixels!.toFixed(4)} pixel`);
     expect(rv).toBeLessThan(0.05); // the high-S/N requirement (lamp.test.ts)
