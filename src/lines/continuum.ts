@@ -60,6 +60,29 @@ export interface ContinuumResult {
   readonly parameters: Readonly<Record<string, unknown>>;
 }
 
+/** Fraction of a stretch's candidate pixels that clipping may never go below (see {@link fitContinuum}). */
+const MIN_KEPT_FRACTION = 0.2;
+
+/**
+ * Restores, in every stretch of `width` where clipping left fewer than MIN_KEPT_FRACTION of
+ * the candidate pixels, the candidates furthest on the continuum side.
+ */
+function keepEnvelope(x: Float64Array, y: Float64Array, continuum: Float64Array, candidate: Uint8Array, used: Uint8Array, domain: Domain, width: number, features: 'absorption' | 'emission' | 'both'): void {
+  const n = x.length;
+  const bins = Math.max(1, Math.ceil((domain.max - domain.min) / width - 1e-9));
+  const members: number[][] = Array.from({ length: bins }, () => []);
+  for (let i = 0; i < n; i++) if (candidate[i]) members[Math.min(bins - 1, Math.floor((x[i] - domain.min) / width))].push(i);
+  for (const m of members) {
+    const need = Math.ceil(MIN_KEPT_FRACTION * m.length);
+    let have = 0;
+    for (const i of m) have += used[i];
+    if (have >= need) continue;
+    const side = (i: number): number => (features === 'absorption' ? y[i] - continuum[i] : features === 'emission' ? continuum[i] - y[i] : -Math.abs(y[i] - continuum[i]));
+    const order = m.filter((i) => !used[i]).sort((a, b) => side(b) - side(a));
+    for (let k = 0; k < need - have && k < order.length; k++) used[order[k]] = 1;
+  }
+}
+
 function median(values: number[]): number {
   if (values.length === 0) return NaN;
   const v = values.slice().sort((a, b) => a - b);
@@ -77,7 +100,9 @@ function median(values: number[]): number {
  * knots are closer than the wings are wide: use a knot spacing several times the wing
  * width, or `exclude` the wings. The noise is each pixel's uncertainty when the spectrum
  * has one, otherwise the robust scatter (1.4826 × median absolute deviation) of the
- * currently used pixels (common practice).
+ * currently used pixels (common practice). Clipping never leaves a stretch of a quarter knot
+ * interval with fewer than a fifth of its pixels: where lines crowd, the highest ones (for
+ * absorption) are kept, so the fit follows the local envelope instead of diving.
  *
  * Missing-data policy: unusable pixels (NaN flux, bad uncertainty, masked) are never used;
  * the continuum is still evaluated there.
@@ -169,7 +194,7 @@ export function fitContinuum(spectrum: Spectrum, options: ContinuumOptions = {})
     for (let i = 0; i < n; i++) if (used[i]) residuals.push(y[i] - continuum[i]);
     const med = median(residuals);
     scatter = 1.4826 * median(residuals.map((r) => Math.abs(r - med)));
-    let changed = 0;
+    const before = used.slice();
     for (let i = 0; i < n; i++) {
       if (!candidate[i]) continue;
       const noise = sigma ? sigma[i] : scatter;
@@ -178,11 +203,17 @@ export function fitContinuum(spectrum: Spectrum, options: ContinuumOptions = {})
       // of the continuum pixels.
       const r = y[i] - continuum[i] - med;
       const keep = noise > 0 ? r >= -lowerClip * noise && r <= upperClip * noise : true;
-      if ((keep ? 1 : 0) !== used[i]) {
-        used[i] = keep ? 1 : 0;
-        changed++;
-      }
+      used[i] = keep ? 1 : 0;
     }
+    // Where lines crowd (a cool star's blue end, a strong line near an edge), clipping can
+    // empty a stretch of the spectrum; the fit, no longer held there, dives and clips what
+    // was left. Each stretch (a quarter of a knot interval, or of the range over the
+    // polynomial's terms) keeps at least MIN_KEPT_FRACTION of its candidate pixels: those
+    // furthest on the continuum side (highest for absorption, lowest for emission, nearest
+    // for both), i.e. its local envelope.
+    keepEnvelope(x, y, continuum, candidate, used, domain, spline ? (domain.max - domain.min) / spline.intervals / 4 : (domain.max - domain.min) / (4 * nBasis), features);
+    let changed = 0;
+    for (let i = 0; i < n; i++) if (used[i] !== before[i]) changed++;
     if (changed === 0) {
       converged = true;
       break;

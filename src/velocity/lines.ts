@@ -132,7 +132,7 @@ export const LINE_VELOCITY_DEFAULTS = Object.freeze({
 });
 
 /** Why a line was not used. */
-export type LineRejection = 'outside-spectrum' | 'blended' | 'fit-failed' | 'at-window-edge' | 'not-detected' | 'far-from-others' | 'outlier';
+export type LineRejection = 'outside-spectrum' | 'no-usable-pixels' | 'blended' | 'fit-failed' | 'at-window-edge' | 'not-detected' | 'far-from-others' | 'outlier';
 
 /** One line of the per-line table. */
 export interface LineVelocityRow {
@@ -338,6 +338,18 @@ export function velocityFromLines(spectrum: Spectrum, options: LineVelocityOptio
         if (Math.abs(wl[i] - c.expected) > fwhm) mask[i - i0] = 1;
       }
     });
+    // The fit needs usable pixels on both sides of the expected centre, within its core
+    // (the pixels may be NaN or masked in the input, or where the continuum was not positive).
+    let below = 0, above = 0;
+    const core = Math.max(fwhm, 2 * Math.abs(wl[Math.min(i1, n - 1)] - wl[i0]) / Math.max(1, i1 - i0));
+    for (let i = i0; i < i1; i++) {
+      if (mask[i - i0] || Math.abs(wl[i] - c.expected) > core) continue;
+      if (wl[i] < c.expected) below++;
+      else above++;
+    }
+    if (below === 0 || above === 0 || below + above < 3) {
+      return reject('no-usable-pixels', `only ${below + above} usable pixels within ${core.toFixed(2)} Å of the expected centre (masked, not finite, or where the continuum is not positive)`);
+    }
     const fit = fitLineArrays(
       { x: wl.subarray(i0, i1), flux: flux.subarray(i0, i1), uncertainty: sigma?.subarray(i0, i1), mask },
       {

@@ -50,6 +50,45 @@ describe('fitContinuum', () => {
     expect(worst).toBeLessThan(0.03);
   });
 
+  it('holds on where lines crowd at an edge (a cool star’s blue end at R ≈ 1000, with two broad deep lines)', () => {
+    // Invented spectrum: a continuum rising steeply to the red, one metal line every ~9 Å in the
+    // first 350 Å (depths 0.2–0.7, FWHM 4 Å), two broad lines of depth 0.9 with Lorentzian wings
+    // 30 and 60 Å from the blue end, S/N 300 with per-pixel uncertainties. Clipping alone empties
+    // the blue stretch, and the spline used to dive there (to negative values at the edge).
+    const rand = mulberry32(12);
+    const wavelength = Array.from({ length: 2000 }, (_, i) => 3900 + 1.5 * i);
+    const cont = (x: number) => 1000 * (1 - Math.exp(-(x - 3500) / 600));
+    const metals = Array.from({ length: 40 }, () => ({ c: 3900 + 350 * rand(), d: 0.2 + 0.5 * rand() }));
+    const flux = wavelength.map((x) => {
+      let f = 1;
+      for (const m of metals) f *= 1 - m.d * Math.exp(-4 * Math.LN2 * ((x - m.c) / 4) ** 2);
+      for (const c of [3930, 3960]) f *= 1 - 0.9 / (1 + ((x - c) / 8) ** 2);
+      return cont(x) * f;
+    });
+    const uncertainty = flux.map((f) => Math.max(f, 50) / 300);
+    const noisy = flux.map((f, i) => f + uncertainty[i] * gaussian(rand));
+    const s = createSpectrum({ wavelength, flux: noisy, uncertainty, medium: 'air' });
+    const c = fitContinuum(s);
+    expect(c.converged).toBe(true);
+    // Judged apart: the crowded stretch (3900–4250 Å, where every pixel lies in some line's
+    // wings and the envelope must sit below the continuum) and the clear part beyond one knot
+    // interval's worth of transition (4400 Å on).
+    const worstOver = (lo: number, hi: number) => {
+      let w = 0;
+      for (let i = 0; i < wavelength.length; i++) if (wavelength[i] >= lo && wavelength[i] <= hi) w = Math.max(w, Math.abs(c.continuum[i] / cont(wavelength[i]) - 1));
+      return w;
+    };
+    const crowded = worstOver(3900, 4250), clear = worstOver(4400, 7000);
+    console.info(`crowded blue end: worst relative error of the continuum ${crowded.toFixed(3)} (3900–4250 Å), ${clear.toExponential(2)} beyond 4400 Å`);
+    // Budgets: 30 % in the crowded stretch (the old behaviour was off by a factor 70 there),
+    // 1 % beyond it (S/N 300 per pixel, hundreds of pixels per knot).
+    expect(crowded).toBeLessThan(0.3);
+    expect(clear).toBeLessThan(0.01);
+    expect(c.continuum.every((v) => v > 0)).toBe(true);
+    const { normalized } = normalizeContinuum(s);
+    expect(normalized.flux.every(Number.isFinite)).toBe(true);
+  });
+
   it('finds the continuum under emission lines of a lamp', () => {
     const rand = mulberry32(3);
     const wavelength = Array.from({ length: 2048 }, (_, i) => i);

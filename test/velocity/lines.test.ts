@@ -106,6 +106,28 @@ describe('velocityFromLines', () => {
     expect(Math.abs(r.velocity.value - v)).toBeLessThan(4 * r.velocity.uncertainty);
   });
 
+  it('rejects a line whose pixels are all unusable (NaN over its core) instead of failing', () => {
+    // Before: the fit was handed a stretch whose usable pixels all lay beside the line, and
+    // threw "line centre … is outside the spectrum". Invented: a bad column over one line.
+    const v = 5;
+    const star = makeStar({ ...BASE, velocityKmPerS: v });
+    const s0 = noiseFree({ ...BASE, velocityKmPerS: v });
+    const target = star.list.entries.find((e) => e.wavelengthAngstrom > 6400 && e.wavelengthAngstrom < 6550)!;
+    const centre = shiftWavelength(target.wavelengthAngstrom, v);
+    const flux = s0.flux.map((f, i) => (Math.abs(s0.wavelength[i] - centre) < 1.5 ? NaN : f));
+    const s = deriveSpectrum(s0, { flux });
+    const r = velocityFromLines(s, { species: SPECIES, maxLinesPerSpecies: 6, resolvingPower: 20000 });
+    const row = r.lines.find((l) => Math.abs(l.restWavelengthAngstrom - target.wavelengthAngstrom) < 0.01)!;
+    expect(row.reason).toBe('no-usable-pixels');
+    expect(row.note).toMatch(/^only 0 usable pixels within \d+\.\d\d Å of the expected centre/);
+    expect(r.linesUsed).toBe(star.list.entries.length - 1);
+    expect(Math.abs(r.velocity.value - v)).toBeLessThan(0.01); // noise-free: as in the first test
+    // Unusable from 40 Å blueward up to just past the line: the usable pixels all lie on its red side.
+    const oneSided = deriveSpectrum(s0, { flux: s0.flux.map((f, i) => (s0.wavelength[i] > centre - 40 && s0.wavelength[i] < centre + 1.5 ? NaN : f)) });
+    const r2 = velocityFromLines(oneSided, { species: SPECIES, maxLinesPerSpecies: 6, resolvingPower: 20000 });
+    expect(r2.lines.find((l) => Math.abs(l.restWavelengthAngstrom - target.wavelengthAngstrom) < 0.01)!.reason).toBe('no-usable-pixels');
+  });
+
   it('scales the error when the lines disagree beyond their errors, and adds the calibration error', () => {
     const s = makeStar({ ...BASE, velocityKmPerS: 5, seed: 9 }).synthetic.spectrum;
     const honest = velocityFromLines(s, { species: SPECIES, maxLinesPerSpecies: 6, resolvingPower: 20000 });
