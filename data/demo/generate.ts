@@ -514,6 +514,28 @@ export function lvac7StarModel(scenario: Scenario, setup: SlitSpectrographSetup,
   return starModel(setup, lvac7Lines(b.projectedRotationKmPerS), [], b.effectiveTemperatureK, velocityKmPerS, R7, (l) => throughput(scenario, l, airmassValue), peakAdu);
 }
 
+/** LVAC-12's set-up (truth.json's `lvac12.dispersion.star.setup`): the camera on the central wavelength's axis. */
+export function lvac12Setup(scenario: Scenario): SlitSpectrographSetup {
+  const idIns = scenario.identificationStar.instrument;
+  return {
+    kind: 'slit', linesPerMm: idIns.linesPerMm, order: idIns.order, incidenceDeg: idIns.incidenceDeg,
+    cameraAngleDeg: diffractionAngleDeg(idIns.centralWavelengthAngstrom, idIns.linesPerMm, idIns.order, idIns.incidenceDeg),
+    focalLengthMm: idIns.focalLengthMm, pixelSizeUm: idIns.pixelSizeUm, pixels: idIns.pixels, axisPixel: (idIns.pixels - 1) / 2,
+  };
+}
+
+/**
+ * The noise-free LVAC-12 star frame, in ADU per pixel, exactly as the generator makes it
+ * before adding noise: its lines (Balmer, Ca II, Ca I, Mg I, Na I, Fe I, Fe II) shifted by
+ * `velocityKmPerS` (observer's frame) on a Planck continuum, with the telluric O2 bands,
+ * at the scenario's resolving power, times the response and the extinction at `airmass`.
+ */
+export function lvac12StarModel(scenario: Scenario, velocityKmPerS: number, airmassValue: number): Float64Array {
+  const id = scenario.identificationStar;
+  const peakAdu = (id.peakSignalToNoise * id.peakSignalToNoise) / scenario.instrument.gainElectronsPerAdu;
+  return starModel(lvac12Setup(scenario), lvac12Lines(), telluricLines(), id.effectiveTemperatureK, velocityKmPerS, id.resolvingPower, (l) => throughput(scenario, l, airmassValue), peakAdu);
+}
+
 // ---------------------------------------------------------------------------------------------
 // The whole data set
 
@@ -643,11 +665,7 @@ export function generateDemo(dir: string = HERE, scenario: Scenario = readScenar
   // LVAC-12: one low-resolution exposure with a mercury-neon-argon lamp before it.
   const id = scenario.identificationStar;
   const idIns = id.instrument;
-  const idSetup: SlitSpectrographSetup = {
-    kind: 'slit', linesPerMm: idIns.linesPerMm, order: idIns.order, incidenceDeg: idIns.incidenceDeg,
-    cameraAngleDeg: diffractionAngleDeg(idIns.centralWavelengthAngstrom, idIns.linesPerMm, idIns.order, idIns.incidenceDeg),
-    focalLengthMm: idIns.focalLengthMm, pixelSizeUm: idIns.pixelSizeUm, pixels: idIns.pixels, axisPixel: (idIns.pixels - 1) / 2,
-  };
+  const idSetup = lvac12Setup(scenario);
   const idLamp = id.lamp;
   const idSequence = idLamp.exposureSeconds + idLamp.gapBeforeStarSeconds + id.exposureSeconds;
   const idStart = sequenceStart(theSky, id.nightUtc, idSequence, id.raDeg, id.decDeg, b.season.minimumAltitudeDeg, b.season.sunBelowDeg, u);
@@ -668,9 +686,7 @@ export function generateDemo(dir: string = HERE, scenario: Scenario = readScenar
   }
   const lines12 = lvac12Lines();
   {
-    const peakAdu = (id.peakSignalToNoise * id.peakSignalToNoise) / ins.gainElectronsPerAdu;
-    const model = starModel(idSetup, lines12, telluricLines(), id.effectiveTemperatureK, idTopo, id.resolvingPower, (l) => throughput(scenario, l, idX), peakAdu);
-    const frame = expose(model, camera, seedOf());
+    const frame = expose(lvac12StarModel(scenario, idTopo, idX), camera, seedOf());
     put(idFiles.star, frameBytes(frame.flux, frame.uncertainty, frameHeader(scenario, {
       object: id.name, frameType: 'object', start: idStarStart, exposureS: id.exposureSeconds, observer: idObserver, instrumentNote: setupLabel12,
       target: { raDeg: id.raDeg, decDeg: id.decDeg }, airmass: idX,

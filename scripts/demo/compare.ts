@@ -5,7 +5,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { DemoTruth, TrueDispersion } from '../../data/demo/generate.js';
+import type { DemoTruth, Scenario, TrueDispersion } from '../../data/demo/generate.js';
 import { gratingPixelToWavelength } from '../../src/calibrate/grating.js';
 import type { BatchReport } from '../../src/cli/commands/batch.js';
 import type { ElementsReport } from '../../src/cli/commands/elements.js';
@@ -14,6 +14,7 @@ import { readSpectrum } from '../../src/io/read.js';
 import { lnGamma } from '../../src/orbit/special.js';
 import { SPEED_OF_LIGHT_KM_PER_S } from '../../src/spectrum/constants.js';
 import { REPO } from './paths.js';
+import { lvac12Budget, type Lvac12Budget } from './velocity-budget.js';
 
 /** A value with its 1-σ uncertainty. */
 export interface Measured {
@@ -132,6 +133,8 @@ export interface DemoComparison {
     readonly measured: Measured;
     readonly trueKmPerS: number;
     readonly pull: number;
+    /** The velocity error split into calibration, the measurement's bias and noise (observer's frame). */
+    readonly budget: Lvac12Budget;
     readonly species: readonly SpeciesComparison[];
     /** Species called present that the star does not have (should be empty). */
     readonly falsePresent: readonly string[];
@@ -220,12 +223,15 @@ function nearestPeriastron(truth: DemoTruth, fittedT: number): number {
 
 /** Inputs of {@link compareWithTruth}: the outputs of the demo's steps. */
 export interface ComparisonInputs {
+  readonly scenario: Scenario;
   readonly truth: DemoTruth;
   readonly batch: BatchReport;
   readonly orbit: OrbitJson;
   /** The calibrated night: its name, the lamp file, and λ of each lamp pixel under the solution. */
   readonly calibration: { readonly night: string; readonly file: string; readonly wavelengthAngstrom: ArrayLike<number>; readonly statedMaxAngstrom: number };
   readonly lvac12Velocity: VelocityReport;
+  /** λ of every pixel of LVAC-12's calibrated spectrum, Å. */
+  readonly lvac12Wavelengths: ArrayLike<number>;
   readonly elements: ElementsReport;
 }
 
@@ -285,6 +291,11 @@ export function compareWithTruth(inputs: ComparisonInputs): DemoComparison {
       measured: v,
       trueKmPerS: truth.lvac12.barycentricVelocityKmPerS,
       pull: (v.value - truth.lvac12.barycentricVelocityKmPerS) / v.uncertainty,
+      budget: lvac12Budget(inputs.scenario, truth.lvac12, inputs.lvac12Wavelengths, {
+        measuredKmPerS: inputs.lvac12Velocity.measuredVelocity.value,
+        statisticalKmPerS: inputs.lvac12Velocity.combination?.statisticalUncertaintyKmPerS ?? NaN,
+        lines: inputs.lvac12Velocity.lines ?? [],
+      }),
       species,
       falsePresent: species.filter((s) => s.verdict === 'present' && !s.inComposition).map((s) => s.species),
       found: species.filter((s) => s.inComposition && s.verdict !== 'not detected').map((s) => s.species),

@@ -10,7 +10,7 @@
  *  6. compare everything with the truth it was generated from.
  */
 import { existsSync, mkdirSync, readdirSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
 import type { DemoTruth, Scenario } from '../../data/demo/generate.js';
 import { readSolution } from '../../src/calibrate/solution-json.js';
 import { solutionWavelengths } from '../../src/calibrate/solution.js';
@@ -20,6 +20,7 @@ import type { CalibrateReport } from '../../src/cli/commands/calibrate.js';
 import type { ElementsReport } from '../../src/cli/commands/elements.js';
 import type { FitReport } from '../../src/cli/commands/fit.js';
 import type { VelocityReport } from '../../src/cli/commands/velocity.js';
+import { readSpectrum } from '../../src/io/read.js';
 import { loadLineList } from '../../src/lines/linelist.js';
 import { shiftWavelength } from '../../src/velocity/doppler.js';
 import { DemoStepError, runStep, type StepRecord } from './cli.js';
@@ -180,7 +181,8 @@ export async function runDemo(options: DemoOptions = {}): Promise<DemoRun> {
   const solution = readSolution(join(REPO, calibrationSolutionFile));
   const pixels = Float64Array.from({ length: solution.pixels ?? 0 }, (_, i) => i);
   const comparison = compareWithTruth({
-    truth, batch, orbit, lvac12Velocity: l12velocity, elements,
+    scenario: sc, truth, batch, orbit, lvac12Velocity: l12velocity, elements,
+    lvac12Wavelengths: readSpectrum(resolve(REPO, l12Spectrum)).wavelength,
     calibration: { night, file: `${nightDir}/lamp-before.fits`, wavelengthAngstrom: solutionWavelengths(solution, pixels), statedMaxAngstrom: solution.wavelengthUncertaintyAngstrom?.max ?? NaN },
   });
   return {

@@ -22,7 +22,7 @@ import { SPEED_OF_LIGHT_KM_PER_S } from '../../src/spectrum/constants.js';
 import { createSpectrum, type Spectrum } from '../../src/spectrum/spectrum.js';
 import { crossCorrelationVelocity } from '../../src/velocity/ccf.js';
 import { velocityFromLines, type LineVelocityRow } from '../../src/velocity/lines.js';
-import { lvac7Lines, lvac7StarModel, type Scenario, type TrueExposure } from '../../data/demo/generate.js';
+import { lvac12StarModel, lvac7Lines, lvac7StarModel, type Scenario, type TrueExposure } from '../../data/demo/generate.js';
 
 /** The species the demo measures LVAC-7 with (`--species 'H,Si II,Fe II'`). */
 export const LVAC7_VELOCITY_SPECIES: readonly string[] = ['H I', 'Si II', 'Fe II'];
@@ -107,4 +107,70 @@ export function calibrationOffsetsKmPerS(scenario: Scenario, e: TrueExposure, ca
     const at = calibrated[p] + f * (calibrated[p + 1] - calibrated[p]);
     return { species: l.species!, restAngstrom: l.wavelengthAngstrom, offsetKmPerS: (SPEED_OF_LIGHT_KM_PER_S * (at - observed)) / observed };
   });
+}
+
+/** One Balmer line of LVAC-12's velocity in {@link lvac12Budget}. */
+export interface Lvac12BudgetLine {
+  /** Rest wavelength, Å, air. */
+  readonly restAngstrom: number;
+  /** The measurement's weight of the line (1/σ², km/s⁻²). */
+  readonly weight: number;
+  /** Calibration error at the line, km/s (c·Δλ/λ; positive reads as a velocity too high). */
+  readonly calibrationKmPerS: number;
+  /** The same line measured on the noise-free frame on its true wavelengths, minus the truth, km/s. */
+  readonly noiseFreeKmPerS: number;
+}
+
+/** Where LVAC-12's velocity error comes from, each part weighted as the measurement weighted its lines. */
+export interface Lvac12Budget {
+  readonly lines: readonly Lvac12BudgetLine[];
+  /** Measured − true (observer's frame), km/s. */
+  readonly totalKmPerS: number;
+  /** The calibration's part, km/s. */
+  readonly calibrationKmPerS: number;
+  /** The measurement's own bias (the metal lines inside the Balmer profiles at R ≈ 900), from the noise-free frame, km/s. */
+  readonly blendKmPerS: number;
+  /** What is left (the realised noise), km/s, and the statistical uncertainty to compare it with. */
+  readonly remainderKmPerS: number;
+  readonly statisticalKmPerS: number;
+}
+
+/**
+ * Splits LVAC-12's measured velocity error (the demo's step 9: Balmer lines, Voigt profiles)
+ * with the truth's help: the calibration's error at each line used (the pipeline's
+ * wavelengths against the frame's true set-up), and the bias of the measurement itself (the
+ * generator's noise-free frame on its true wavelengths, measured the same way); the rest is
+ * noise. `calibrated` is the pipeline's wavelength of every pixel; `lines` and the
+ * velocities are the step's output.
+ */
+export function lvac12Budget(scenario: Scenario, truth: { topocentricVelocityKmPerS: number; airmass: number; dispersion: { star: { setup: SlitSpectrographSetup } } },
+  calibrated: ArrayLike<number>, measured: { measuredKmPerS: number; statisticalKmPerS: number; lines: readonly LineVelocityRow[] }): Lvac12Budget {
+  const v = truth.topocentricVelocityKmPerS;
+  const grid = trueWavelengths(truth.dispersion.star.setup);
+  const model = lvac12StarModel(scenario, v, truth.airmass);
+  const g = scenario.instrument.gainElectronsPerAdu;
+  const rn = scenario.instrument.readNoiseElectrons;
+  const clean = createSpectrum({ wavelength: grid, flux: model, uncertainty: model.map((m) => Math.sqrt(m * g + rn * rn) / g), unit: 'angstrom', medium: 'air', provenance: [] });
+  const noiseFree = velocityFromLines(clean, { species: ['H I'], profile: 'voigt' }).lines;
+  const z = Math.sqrt((1 + v / SPEED_OF_LIGHT_KM_PER_S) / (1 - v / SPEED_OF_LIGHT_KM_PER_S));
+  const lines = measured.lines.filter((l) => l.reason === null && l.velocityKmPerS).map((l): Lvac12BudgetLine => {
+    const observed = l.restWavelengthAngstrom * z;
+    let p = 0;
+    while (p < grid.length - 2 && grid[p + 1] < observed) p++;
+    const f = (observed - grid[p]) / (grid[p + 1] - grid[p]);
+    const at = calibrated[p] + f * (calibrated[p + 1] - calibrated[p]);
+    const clean = noiseFree.find((r) => Math.abs(r.restWavelengthAngstrom - l.restWavelengthAngstrom) < 1e-6)?.velocityKmPerS;
+    return {
+      restAngstrom: l.restWavelengthAngstrom,
+      weight: 1 / l.velocityKmPerS!.uncertainty ** 2,
+      calibrationKmPerS: (SPEED_OF_LIGHT_KM_PER_S * (at - observed)) / observed,
+      noiseFreeKmPerS: clean ? clean.value - v : NaN,
+    };
+  });
+  const w = lines.reduce((s, l) => s + l.weight, 0);
+  const weighted = (k: 'calibrationKmPerS' | 'noiseFreeKmPerS') => lines.reduce((s, l) => s + l.weight * l[k], 0) / w;
+  const totalKmPerS = measured.measuredKmPerS - v;
+  const calibrationKmPerS = weighted('calibrationKmPerS');
+  const blendKmPerS = weighted('noiseFreeKmPerS');
+  return { lines, totalKmPerS, calibrationKmPerS, blendKmPerS, remainderKmPerS: totalKmPerS - calibrationKmPerS - blendKmPerS, statisticalKmPerS: measured.statisticalKmPerS };
 }
