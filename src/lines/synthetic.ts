@@ -648,7 +648,7 @@ export function lineListTemplate(options: LineListTemplateOptions): Spectrum {
     maxLinesPerSpecies: options.maxLinesPerSpecies,
   });
   if (chosen.entries.length === 0) {
-    throw new UsageError('synthetic.no-lines', `no line of ${list.species.join(', ') || 'the list'} falls between ${options.startAngstrom} and ${options.endAngstrom} Å`);
+    throw new UsageError('synthetic.no-lines', `no line of ${list.species.join(', ') || 'the list'} falls between ${options.startAngstrom.toFixed(1)} and ${options.endAngstrom.toFixed(1)} Å`);
   }
   const made = syntheticSpectrum({
     wavelengthAngstrom: grid.wavelength,

@@ -432,7 +432,7 @@ export function velocityFromLines(spectrum: Spectrum, options: LineVelocityOptio
   return {
     method: 'lines',
     converged: used > 0,
-    message: used > 0 ? `${used} line${used === 1 ? '' : 's'} used` : 'no line could be used',
+    message: used > 0 ? `${used} line${used === 1 ? '' : 's'} used` : `no line could be used (${reasonCounts(finalRows)})`,
     velocity: { value: comb.value, uncertainty: used > 0 ? Math.hypot(statistical, calibration) : NaN },
     statisticalUncertaintyKmPerS: comb.statisticalUncertainty,
     uncertaintyScale: comb.uncertaintyScale,
@@ -471,6 +471,14 @@ const MIN_LINES_FOR_COMMON_WIDTH = 3;
 const BROAD_NEIGHBOUR_RATIO = 3;
 /** Second-pass fitting window: ± this many measured FWHM. */
 const WINDOW_HALF_WIDTH_FWHM = 3;
+
+/** "3 not-detected, 1 outside-spectrum": why the lines were not used, most common first. */
+function reasonCounts(rows: readonly LineVelocityRow[]): string {
+  const counts = new Map<string, number>();
+  for (const r of rows) counts.set(r.reason ?? 'unused', (counts.get(r.reason ?? 'unused') ?? 0) + 1);
+  if (counts.size === 0) return 'no line of the list in range';
+  return [...counts].sort((a, b) => b[1] - a[1]).map(([k, n]) => `${n} ${k}`).join(', ');
+}
 
 function lowerBound(a: Float64Array, v: number): number {
   let lo = 0, hi = a.length;

@@ -154,7 +154,7 @@ describe('lineshift velocity', () => {
     // He I lines lie in the range (5015.7, 5875.6 Å) but the star has none.
     const { code, io, report } = await run(['star.csv', '--species', 'He I', '--approximate', '30', '--resolving-power', '5000', '--json']);
     expect(code).toBe(1);
-    expect(io.err).toBe('lineshift: star.csv: no velocity: no line could be used\n');
+    expect(io.err).toBe('lineshift: star.csv: no velocity: no line could be used (7 blended, 2 not-detected, 1 at-window-edge)\n');
     expect(report!.radialVelocity).toBeNull();
     expect(report!.lines!.every((l) => l.status === 'rejected')).toBe(true);
   });

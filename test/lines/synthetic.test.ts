@@ -223,7 +223,7 @@ describe('lineListTemplate and selectStrongestLines', () => {
       expect(t.flux[best], String(line)).toBeLessThan(0.6);
     }
     expect(t.provenance.map((p) => p.step)).toEqual(['synthetic-spectrum', 'line-list-template']);
-    expect(() => lineListTemplate({ species: ['H I'], startAngstrom: 7100, endAngstrom: 8000, medium: 'air', resolvingPower: 5000 })).toThrow('no line of H I falls between 7100 and 8000 Å');
+    expect(() => lineListTemplate({ species: ['H I'], startAngstrom: 7100, endAngstrom: 8000, medium: 'air', resolvingPower: 5000 })).toThrow('no line of H I falls between 7100.0 and 8000.0 Å');
     expect(() => lineListTemplate({ species: ['Xx I'], startAngstrom: 4000, endAngstrom: 5000, medium: 'air', resolvingPower: 5000 })).toThrow(/no line list for "Xx I"/);
   });
 });
