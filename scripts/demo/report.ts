@@ -37,6 +37,10 @@ export interface DemoReportOptions {
 }
 
 const m = (x: { value: number; uncertainty: number }, unit?: string) => formatMeasured(x.value, x.uncertainty, unit);
+/** +1.5, −0.4 (one decimal, always signed). */
+const signed = (x: number) => `${x < 0 ? '−' : '+'}${Math.abs(x).toFixed(1)}`;
+/** Hα … Hε for a Balmer line's air wavelength (Å), else the wavelength. */
+const balmerName = (w: number) => ({ 6563: 'Hα', 4861: 'Hβ', 4340: 'Hγ', 4102: 'Hδ', 3970: 'Hε' } as Record<number, string>)[Math.round(w)] ?? `${w.toFixed(0)} Å`;
 const KEPLER = (o: OrbitJson): KeplerianOrbit => ({
   periodDays: o.period.value, periastronTimeBjdTdb: o.periastronTime.value, eccentricity: o.eccentricity.value,
   omegaDeg: o.omega.value, semiAmplitudeKmPerS: o.semiAmplitude.value, systemicVelocityKmPerS: o.systemicVelocity.value,
@@ -290,7 +294,7 @@ export async function demoReport(run: DemoRun, options: DemoReportOptions = {}):
           ['Velocities per night', `χ² = ${p.chiSquare.toFixed(1)} for ${p.count} nights (probability of a larger value ${formatProbability(p.chiSquareProbability)}); mean pull ${formatNumber(p.meanPull, 2)}, RMS pull ${p.rmsPull.toFixed(2)}, largest |pull| ${p.maxAbsPull.toFixed(2)}`],
           ['BJD_TDB', `largest difference ${Math.max(...cmp.nights.map((n) => Math.abs(n.bjdDifferenceSeconds))).toFixed(4)} s (the same header keys and library as the generator)`],
           ['Calibrated wavelengths of the stars', `at the middle of the spectra (the velocity zero point) the error is ${formatNumber(mean(zeroPoint), 3)} km/s on average, RMS of error/stated ${Math.sqrt(mean(cmp.nights.map((n) => (n.wavelengthErrorMiddleKmPerS / n.statedCalibrationKmPerS) ** 2))).toFixed(2)} (median stated error ${median(cmp.nights.map((n) => n.statedCalibrationKmPerS)).toFixed(3)} km/s); largest error over all pixels and nights ${Math.max(...cmp.nights.map((n) => n.wavelengthErrorMaxKmPerS)).toFixed(2)} km/s`],
-          [`${sc.identificationStar.name} velocity`, `${m(cmp.lvac12.measured, 'km/s')} barycentric against ${cmp.lvac12.trueKmPerS} km/s true (${formatNumber(cmp.lvac12.pull, 1)} σ). Of the ${formatNumber(b12.totalKmPerS, 1)} km/s: the calibration ${formatNumber(b12.calibrationKmPerS, 1)} km/s at the Balmer lines; the metal lines that fall inside the Balmer profiles at R ≈ 900 ${formatNumber(b12.blendKmPerS, 1)} km/s (the same lines measured on the noise-free frame: ${b12.lines.map((l) => `${l.restAngstrom.toFixed(0)} Å ${formatNumber(l.noiseFreeKmPerS, 1)}`).join(', ')} km/s), a bias the per-line errors do not include; noise the remaining ${formatNumber(b12.remainderKmPerS, 1)} km/s (statistical error ${b12.statisticalKmPerS.toFixed(1)} km/s)`],
+          [`${sc.identificationStar.name} velocity`, `${m(cmp.lvac12.measured, 'km/s')} barycentric against ${cmp.lvac12.trueKmPerS} km/s true (${formatNumber(cmp.lvac12.pull, 1)} σ). Of the ${signed(b12.totalKmPerS)} km/s: calibration ${signed(b12.calibrationKmPerS)} km/s at the Balmer lines; metal lines inside the Balmer profiles at R ≈ 900 ${signed(b12.blendKmPerS)} km/s (measured on the noise-free frame: ${b12.lines.map((l) => `${balmerName(l.restAngstrom)} ${signed(l.noiseFreeKmPerS)}`).join(', ')} km/s), a bias the per-line errors do not include; noise ${signed(b12.remainderKmPerS)} km/s (statistical σ ${b12.statisticalKmPerS.toFixed(1)} km/s)`],
           [`${sc.identificationStar.name} species`, `put in: ${truth.lvac12.composition.map((c) => c.species).join(', ')}; called present: ${present.join(', ') || 'none'}; present or possible and really there: ${cmp.lvac12.found.join(', ')}; put in but not found: ${truth.lvac12.composition.map((c) => c.species).filter((s) => !cmp.lvac12.found.includes(s)).join(', ') || 'none'}; called present but absent: ${cmp.lvac12.falsePresent.join(', ') || 'none'}`],
         ] },
       ],
