@@ -608,7 +608,7 @@ export function identifyLines(
 
   // ---- verdicts
   const speciesTested = work.filter((w) => w.expected.length > 0).length;
-  const evidence: SpeciesEvidence[] = work.map((w, si) => {
+  const evidence = work.map((w, si) => {
     const r = real[si];
     const n = w.expected.length;
     const m = r.flags.filter(Boolean).length;
@@ -664,21 +664,60 @@ export function identifyLines(
       shiftFalseAlarmProbability: shiftFap,
       significanceSigma: Number.isFinite(sig) ? Math.max(0, sig) : sig > 0 ? Infinity : 0,
       matched: Object.freeze(matched),
-      reasons: Object.freeze(reasons),
+      explainedBy: Object.freeze([]) as readonly string[],
+      reasons: Object.freeze(reasons) as readonly VerdictReason[],
       reason: null as string | null,
     };
     evidence.reason = reasons.length ? reasons.map((x) => verdictReasonMessage(x, evidence, thresholds)).join('; ') : null;
-    return Object.freeze(evidence);
+    return evidence;
   });
+
+  // ---- lines explained by a present species
+  // A found line that is an expected line of a species called present (He II 4859.3 on Hβ at
+  // low resolution) is no evidence for another species: for each `possible` species, its
+  // expected features matched by such lines are set aside (neither found nor missing) and the
+  // conditions of `possible` are checked again on the rest.
+  const claimedBy = new Map<number, string[]>();
+  evidence.forEach((e, si) => {
+    if (e.verdict !== 'present') return;
+    for (const mt of real[si].matches) if (mt) claimedBy.set(mt.index, [...(claimedBy.get(mt.index) ?? []), e.species]);
+  });
+  evidence.forEach((e, si) => {
+    if (e.verdict !== 'possible' || claimedBy.size === 0) return;
+    const w = work[si];
+    const r = real[si];
+    const by = new Set<string>();
+    const keep = w.expected.map((_, j) => {
+      const owners = r.matches[j] ? (claimedBy.get(r.matches[j]!.index) ?? []).filter((x) => x !== e.species) : [];
+      owners.forEach((x) => by.add(x));
+      return owners.length === 0;
+    });
+    if (by.size === 0) return;
+    const kept = (a: readonly number[]) => a.filter((_, j) => keep[j]);
+    const gain = kept(w.gain);
+    const p = kept(w.p);
+    const flags = r.flags.filter((_, j) => keep[j]);
+    const missSum = kept(w.expected.map((_, j) => Math.log((1 - w.q[j]) / (1 - w.p[j])))).reduce((acc, x) => acc + x, 0);
+    const gained = gain.reduce((acc, g, j) => acc + (flags[j] ? g : 0), 0);
+    const matchedLeft = flags.filter(Boolean).length;
+    const lambda = missSum + gained;
+    const fap = gain.length === 0 ? 1 : bernoulliSumUpperTail(gain, p, gained - 1e-12);
+    if (matchedLeft >= 1 && lambda > 0 && fap <= thresholds.possibleFalseAlarm) return;
+    e.verdict = 'not detected';
+    e.explainedBy = Object.freeze([...by].sort());
+    e.reasons = Object.freeze(['explained-by-present-species'] as VerdictReason[]);
+    e.reason = verdictReasonMessage('explained-by-present-species', e, thresholds);
+  });
+  const frozen: SpeciesEvidence[] = evidence.map((e) => Object.freeze(e));
   const rank: Record<Verdict, number> = { present: 0, possible: 1, 'not detected': 2 };
-  evidence.sort(
+  frozen.sort(
     (a, b) =>
       rank[a.verdict] - rank[b.verdict] ||
       a.adjustedFalseAlarmProbability - b.adjustedFalseAlarmProbability ||
       b.logLikelihoodRatio - a.logLikelihoodRatio ||
       a.species.localeCompare(b.species),
   );
-  const verdictOf = new Map(evidence.map((e) => [e.species, e.verdict] as const));
+  const verdictOf = new Map(frozen.map((e) => [e.species, e.verdict] as const));
   const workOf = new Map(work.map((w) => [w.species, w] as const));
 
   // ---- candidates per found line
@@ -776,7 +815,7 @@ export function identifyLines(
 
   return Object.freeze({
     lines: Object.freeze(lines),
-    elements: Object.freeze(evidence),
+    elements: Object.freeze(frozen),
     resolvingPower,
     resolvingPowerSource,
     velocityKmPerS: v,

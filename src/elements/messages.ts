@@ -115,5 +115,7 @@ export function verdictReasonMessage(reason: VerdictReason, e: SpeciesEvidence, 
         : `false-alarm probability ${probability(e.falseAlarmProbability)} above ${t.possibleFalseAlarm}`;
     case 'shift-test-failed':
       return `shift-test false-alarm probability ${probability(e.shiftFalseAlarmProbability ?? 1)} above ${t.presentShiftFalseAlarm}`;
+    case 'explained-by-present-species':
+      return `its matched lines are lines of ${e.explainedBy.join(', ')} (present); without them the evidence falls short of possible`;
   }
 }

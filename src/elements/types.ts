@@ -74,7 +74,8 @@ export type VerdictReason =
   | 'strongest-line-missing'
   | 'weak-evidence'
   | 'false-alarm-too-likely'
-  | 'shift-test-failed';
+  | 'shift-test-failed'
+  | 'explained-by-present-species';
 
 /** One candidate identification of a found line. */
 export interface LineCandidate {
@@ -164,6 +165,11 @@ export interface SpeciesEvidence {
   readonly significanceSigma: number;
   /** The matched expected lines. */
   readonly matched: readonly MatchedFeature[];
+  /**
+   * Species called `present` whose own expected lines are the found lines this species matched
+   * (e.g. He II 4859 on Hβ), when discounting those lines decided the verdict; otherwise empty.
+   */
+  readonly explainedBy: readonly string[];
   /** Why the verdict is not the next better one: the unmet conditions, most basic first; empty for `present`. */
   readonly reasons: readonly VerdictReason[];
   /** The reasons in words, joined by `; ` (e.g. `only 1 expected line in range (present needs 2)`), or null for `present`. */

@@ -46,7 +46,7 @@ describe('lineshift elements', () => {
     expect(r.elements[0].linesExpected).toBeGreaterThanOrEqual(r.elements[0].linesMatched);
     expect(Object.keys(r.elements[0]).sort()).toEqual(
       ['adjustedFalseAlarmProbability', 'element', 'falseAlarmProbability', 'linesExpected', 'linesMatched', 'logLikelihoodRatio', 'missingWavelengthsAngstrom',
-        'otherLinesMatched', 'rankedByIntensity', 'reason', 'reasons', 'shiftFalseAlarmProbability', 'significance', 'species', 'strongestMatched', 'verdict'].sort(),
+        'explainedBy', 'otherLinesMatched', 'rankedByIntensity', 'reason', 'reasons', 'shiftFalseAlarmProbability', 'significance', 'species', 'strongestMatched', 'verdict'].sort(),
     );
     expect(r.elements[0]).toMatchObject({ reasons: [], reason: null });
     expect(r.elements.filter((e) => e.verdict === 'present').map((e) => e.species)).toEqual(['Ne I']);

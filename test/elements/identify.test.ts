@@ -223,6 +223,26 @@ describe('identifyLines: evidence', () => {
     for (let i = 1; i < lambdas.length; i++) expect(lambdas[i]).toBeLessThan(lambdas[i - 1]);
   });
 
+  it('does not count lines of a present species as evidence for another (explained away)', () => {
+    // T II (invented): its strongest line at 4600 Å, three weaker ones 0.3 Å from S I lines,
+    // well within the tolerance at R 3000 (±0.8 Å).
+    const other = ref('T II', [4600, 4950.3, 5300.3, 5650.3], [1000, 600, 600, 600]);
+    const sLines = found(waves.map((w) => w + 0.1));
+    const without = identifyLines([...sLines, ...bg], [...list, ...other], opts);
+    const t = without.elements.find((e) => e.species === 'T II')!;
+    expect(without.elements.find((e) => e.species === 'S I')!.verdict).toBe('present');
+    expect(t.linesMatched).toBe(3);
+    expect(t.verdict).toBe('not detected');
+    expect(t.reasons).toEqual(['explained-by-present-species']);
+    expect(t.explainedBy).toEqual(['S I']);
+    expect(t.reason).toBe('its matched lines are lines of S I (present); without them the evidence falls short of possible');
+    // With its own strongest line found too, T II keeps its verdict on that line's evidence.
+    const withOwn = identifyLines([...sLines, ...found([4600.1]), ...bg], [...list, ...other], opts);
+    const t2 = withOwn.elements.find((e) => e.species === 'T II')!;
+    expect(t2.verdict).not.toBe('not detected');
+    expect(t2.explainedBy).toEqual([]);
+  });
+
   it('does not call weak coincidences present when the strong lines are absent', () => {
     // only the three weakest lines "found"
     const res = identifyLines([...found(waves.slice(5).map((w) => w + 0.1)), ...bg], list, opts);

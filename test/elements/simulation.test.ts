@@ -19,13 +19,14 @@ describe('identification of synthetic found-line lists', () => {
   const reference = listsOf([...all.keys()].filter((s) => !s.includes('telluric')));
   const bands = telluricBandsFromLines(listsOf(['O2 telluric', 'H2O telluric']));
 
-  const table = new Map<string, { precision: number; recall: number; recallPossible: number; fp: string[] }>();
+  const table = new Map<string, { precision: number; recall: number; recallPossible: number; precisionPossible: number; fp: string[] }>();
   for (const R of RESOLVING_POWERS) {
     for (const snr of SNRS) {
       let tp = 0;
       let fp = 0;
       let fn = 0;
       let tpPossible = 0;
+      let fpPossible = 0;
       const fps: string[] = [];
       SCENARIOS.forEach((sc, si) => {
         for (let r = 0; r < REALISATIONS; r++) {
@@ -43,6 +44,7 @@ describe('identification of synthetic found-line lists', () => {
             else fn++;
             if (any.has(s)) tpPossible++;
           }
+          for (const s of any) if (!sim.truth.includes(s)) fpPossible++;
           for (const s of present) {
             if (!sim.truth.includes(s)) {
               fp++;
@@ -51,22 +53,24 @@ describe('identification of synthetic found-line lists', () => {
           }
         }
       });
-      table.set(`${R}/${snr}`, { precision: tp + fp ? tp / (tp + fp) : 1, recall: tp / (tp + fn), recallPossible: tpPossible / (tp + fn), fp: fps });
+      table.set(`${R}/${snr}`, { precision: tp + fp ? tp / (tp + fp) : 1, recall: tp / (tp + fn), recallPossible: tpPossible / (tp + fn), precisionPossible: tpPossible / Math.max(1, tpPossible + fpPossible), fp: fps });
     }
   }
 
   it('prints the precision/recall table', () => {
-    const lines = ['R      S/N  precision  recall  recall(present or possible)'];
+    const lines = ['R      S/N  precision  recall  present or possible: precision  recall'];
     for (const [k, v] of table) {
       const [R, snr] = k.split('/');
-      lines.push(`${R.padEnd(6)} ${snr.padStart(4)}  ${v.precision.toFixed(3).padStart(9)}  ${v.recall.toFixed(3).padStart(6)}  ${v.recallPossible.toFixed(3).padStart(6)}${v.fp.length ? `  false: ${v.fp.join(', ')}` : ''}`);
+      lines.push(`${R.padEnd(6)} ${snr.padStart(4)}  ${v.precision.toFixed(3).padStart(9)}  ${v.recall.toFixed(3).padStart(6)}  ${v.precisionPossible.toFixed(3).padStart(29)}  ${v.recallPossible.toFixed(3).padStart(6)}${v.fp.length ? `  false: ${v.fp.join(', ')}` : ''}`);
     }
     console.log(lines.join('\n'));
     expect(table.size).toBe(RESOLVING_POWERS.length * SNRS.length);
   });
 
-  it('keeps precision ≥ 0.95 at every resolving power and S/N', () => {
+  it('keeps precision ≥ 0.95 at every resolving power and S/N, and ≥ 0.85 for "present or possible"', () => {
     for (const [k, v] of table) expect(v.precision, k).toBeGreaterThanOrEqual(0.95);
+    // Before lines of a present species stopped counting for others, R = 500 gave 0.77–0.81.
+    for (const [k, v] of table) expect(v.precisionPossible, k).toBeGreaterThanOrEqual(0.85);
   });
 
   it('finds most species at R = 10000 and more at higher resolution', () => {

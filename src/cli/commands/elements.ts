@@ -21,6 +21,8 @@ export interface ElementsReportSpecies {
   rankedByIntensity: boolean;
   otherLinesMatched: number;
   missingWavelengthsAngstrom: number[];
+  /** Species called present whose lines this species' matches were, when that decided its verdict. */
+  explainedBy: string[];
   /** Why the verdict is not the next better one (empty for present). */
   reasons: SpeciesEvidence['reasons'][number][];
   /** The reasons in words, or null for present. */
@@ -116,6 +118,7 @@ export function elementsReport(r: SpectrumIdentification, file: string): Element
       rankedByIntensity: e.rankedByIntensity,
       otherLinesMatched: e.otherLinesMatched,
       missingWavelengthsAngstrom: [...e.missingWavelengthsAngstrom],
+      explainedBy: [...e.explainedBy],
       reasons: [...e.reasons],
       reason: e.reason,
     })),
