@@ -223,6 +223,24 @@ describe('identifyLines: evidence', () => {
     for (let i = 1; i < lambdas.length; i++) expect(lambdas[i]).toBeLessThan(lambdas[i - 1]);
   });
 
+  it('does not count a list line inside the core of a much broader found line as missing', () => {
+    // The strongest S I line (4200 Å) lies 2 Å from the centre of a broad found line (FWHM 6 Å,
+    // over 4 resolution elements at R 3000: a Ca II K-like line), beyond its own tolerance: it
+    // cannot be seen on its own, so it is neither found nor missing.
+    const broadLine: ObservedLine = { wavelengthAngstrom: 4202, wavelengthUncertaintyAngstrom: 0.05, kind: 'absorption', fwhmAngstrom: 6 };
+    const others = found(waves.slice(1).map((w) => w + 0.1)).map((o) => ({ ...o, fwhmAngstrom: o.wavelengthAngstrom / 3000 }));
+    const res = identifyLines([...others, broadLine, ...bg], list, opts);
+    const e = res.elements[0];
+    expect(e.linesExpected).toBe(7);
+    expect(e.missingWavelengthsAngstrom).toEqual([]);
+    expect(e.verdict).toBe('present');
+    // A narrow found line at the same place hides nothing: the strongest line is then missing.
+    const narrow = identifyLines([...others, { ...broadLine, fwhmAngstrom: 1.4 }, ...bg], list, opts).elements[0];
+    expect(narrow.linesExpected).toBe(8);
+    expect(narrow.strongestMatched).toBe(false);
+    expect(narrow.verdict).not.toBe('present');
+  });
+
   it('does not count lines of a present species as evidence for another (explained away)', () => {
     // T II (invented): its strongest line at 4600 Å, three weaker ones 0.3 Å from S I lines,
     // well within the tolerance at R 3000 (±0.8 Å).
