@@ -22,6 +22,7 @@ import {
   notPositiveMessage,
   resolutionEstimatedMessage,
   shiftTestSkippedMessage,
+  velocityOffsetMessage,
   velocityTooLargeMessage,
   verdictReasonMessage,
 } from './messages.js';
@@ -156,8 +157,60 @@ export interface IdentificationResult {
   readonly shiftTrials: number;
   /** Thresholds used. */
   readonly thresholds: EvidenceThresholds;
+  /**
+   * How far the found lines sit, on average, from their identifications, as a velocity on top
+   * of `velocityKmPerS`: see {@link residualVelocity}. Null with fewer than 3 usable lines.
+   */
+  readonly residualVelocity: ResidualVelocity | null;
   /** How the result was made. */
   readonly provenance: ProvenanceEntry;
+}
+
+/** The found lines' mean offset from their identifications, as a velocity (km/s). */
+export interface ResidualVelocity {
+  /** Weighted mean of c·Δλ/λ, km/s (positive: the lines sit redward of where the lists were placed). */
+  readonly valueKmPerS: number;
+  /** Its standard error, km/s (scaled up by √(χ²/ν) when the lines scatter more than their σ). */
+  readonly uncertaintyKmPerS: number;
+  /** Lines used. */
+  readonly lines: number;
+}
+
+/** Fewest lines for {@link residualVelocity}. */
+const RESIDUAL_VELOCITY_MIN_LINES = 3;
+
+/**
+ * {@link identifyLines} warns when the residual velocity exceeds 3 of its σ and this fraction of
+ * c/R: then it eats a good part of the match tolerance (±0.45 λ/R by default).
+ */
+const RESIDUAL_VELOCITY_WARN_FRACTION = 0.2;
+
+/**
+ * The found lines' mean offset from their identifications: over lines whose best candidate is
+ * a single list line of a species called present, the weighted mean of c·Δλ/λ (weights from
+ * each match's σ, its tolerance over k, which includes the blend term), with its standard
+ * error, scaled up by √(χ²/ν) when χ²/ν > 1. A value several times its error says that the
+ * velocity given to place the lists (0 when none) is off by about that much.
+ */
+function residualVelocity(lines: readonly LineIdentification[], k: number): ResidualVelocity | null {
+  let sw = 0, swx = 0, n = 0;
+  const xs: { x: number; w: number }[] = [];
+  for (const l of lines) {
+    const c = l.candidates[0];
+    if (!c || c.telluric || c.verdict !== 'present' || c.components !== 1) continue;
+    const x = (SPEED_OF_LIGHT_KM_PER_S * c.deltaAngstrom) / c.expectedWavelengthAngstrom;
+    const sigma = (SPEED_OF_LIGHT_KM_PER_S * (l.toleranceAngstrom / k)) / c.expectedWavelengthAngstrom;
+    const w = 1 / (sigma * sigma);
+    xs.push({ x, w });
+    sw += w;
+    swx += w * x;
+    n++;
+  }
+  if (n < RESIDUAL_VELOCITY_MIN_LINES) return null;
+  const mean = swx / sw;
+  const chi2 = xs.reduce((acc, { x, w }) => acc + w * (x - mean) ** 2, 0);
+  const scale = Math.max(1, Math.sqrt(chi2 / (n - 1)));
+  return Object.freeze({ valueKmPerS: mean, uncertaintyKmPerS: scale / Math.sqrt(sw), lines: n });
 }
 
 /** Inputs of {@link matchToleranceAngstrom}. */
@@ -841,9 +894,14 @@ export function identifyLines(
     });
   });
 
+  const offset = residualVelocity(lines, k);
+  if (offset && Math.abs(offset.valueKmPerS) > 3 * offset.uncertaintyKmPerS && Math.abs(offset.valueKmPerS) > RESIDUAL_VELOCITY_WARN_FRACTION * (SPEED_OF_LIGHT_KM_PER_S / resolvingPower)) {
+    logger.warn({ code: 'elements.velocity-offset', message: velocityOffsetMessage(offset.valueKmPerS, offset.uncertaintyKmPerS, offset.lines, v) });
+  }
   return Object.freeze({
     lines: Object.freeze(lines),
     elements: Object.freeze(frozen),
+    residualVelocity: offset,
     resolvingPower,
     resolvingPowerSource,
     velocityKmPerS: v,

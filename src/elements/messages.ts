@@ -46,6 +46,12 @@ export function badCoverageMessage(start: unknown, end: unknown): string {
   return `wavelength coverage ${String(start)}–${String(end)} Å is not an interval of positive wavelengths with start < end`;
 }
 
+/** The found lines sit systematically off their identifications: the velocity given is off. */
+export function velocityOffsetMessage(offsetKmPerS: number, uncertaintyKmPerS: number, lines: number, givenKmPerS: number): string {
+  const sign = (x: number) => `${x < 0 ? '−' : '+'}${Math.abs(x).toFixed(1)}`;
+  return `the identified lines sit on average ${sign(offsetKmPerS)} ± ${uncertaintyKmPerS.toFixed(1)} km/s from the list wavelengths placed at ${givenKmPerS} km/s (${lines} lines); give the object's velocity (about ${sign(givenKmPerS + offsetKmPerS)} km/s) with --velocity (velocityKmPerS)`;
+}
+
 /** A velocity at or beyond the speed of light. */
 export function velocityTooLargeMessage(v: number): string {
   return `velocity ${v} km/s is not below the speed of light in size`;

@@ -66,7 +66,7 @@ describe('lineshift elements', () => {
     const io = capture();
     expect(await runCli(['elements', lampFile, '--velocity', lamp.velocityKmPerS.toFixed(3), '--resolving-power', '4000', '--species', 'Ne,Ar'], io)).toBe(0);
     const lines = io.out.split('\n');
-    expect(lines[0]).toMatch(new RegExp(`^${lampFile.replace(/[.\\/]/g, (c) => `\\${c}`)}: \\d+ lines found; R = 4000 \\(given\\); velocity -?[0-9.]+ km/s; air wavelengths; 2 spectra tested$`));
+    expect(lines[0]).toMatch(new RegExp(`^${lampFile.replace(/[.\\/]/g, (c) => `\\${c}`)}: \\d+ lines found; R = 4000 \\(given\\); velocity -?[0-9.]+ km/s \\(lines of present species sit [+−][0-9.]+ ± [0-9.]+ km/s off it\\); air wavelengths; 2 spectra tested$`));
     expect(io.out).toContain('  species  verdict');
     expect(io.out).toMatch(/\n {2}Ne I +present +\d+\/\d+/);
     expect(io.out).toContain('found lines (best identification):');
@@ -88,6 +88,30 @@ describe('lineshift elements', () => {
     const ha = r.lines.find((l) => Math.abs(l.wavelengthAngstrom - 6562.3) < 2)!;
     expect(ha.telluric).toBe(true);
     expect(ha.identifications.map((c) => c.species)).toEqual(['H I']);
+  });
+
+  it('says when the lines sit off the velocity given, and what to do when nothing matches', async () => {
+    // Given 25 km/s too high at R 4000 (c/R = 75 km/s), the neon lines still match but sit
+    // −25 km/s off on average: a warning names the velocity to give instead.
+    const v = lamp.velocityKmPerS;
+    const io = capture();
+    expect(await runCli(['elements', lampFile, '--velocity', (v + 25).toFixed(3), '--resolving-power', '4000', '--json'], io)).toBe(0);
+    const r = JSON.parse(io.out) as ElementsReport;
+    expect(r.residualVelocity!.lines).toBeGreaterThanOrEqual(10);
+    expect(Math.abs(r.residualVelocity!.valueKmPerS + 25)).toBeLessThan(3 * r.residualVelocity!.uncertaintyKmPerS + 1);
+    const w = (io.logger as ReturnType<typeof collectingLogger>).warnings.find((x) => x.code === 'elements.velocity-offset')!;
+    expect(w.message).toMatch(/^the identified lines sit on average −2\d\.\d ± \d+\.\d km\/s from the list wavelengths placed at [0-9.]+ km\/s \(\d+ lines\); give the object's velocity \(about [+−]?\d+\.\d km\/s\) with --velocity \(velocityKmPerS\)$/);
+    const suggested = Number(w.message.match(/about ([+−]?\d+\.\d)/)![1].replace('−', '-'));
+    expect(Math.abs(suggested - v)).toBeLessThan(5);
+    // With the right velocity there is no such warning (the first test also checks stderr is empty).
+    const right = capture();
+    expect(await runCli(['elements', lampFile, '--velocity', v.toFixed(3), '--resolving-power', '4000', '--json'], right)).toBe(0);
+    expect((right.logger as ReturnType<typeof collectingLogger>).warnings.map((x) => x.code)).not.toContain('elements.velocity-offset');
+    // 300 km/s off, nothing matches: the table says how to find the velocity.
+    const far = capture();
+    expect(await runCli(['elements', lampFile, '--velocity', (v + 300).toFixed(3), '--resolving-power', '4000'], far)).toBe(0);
+    expect(far.out).toContain('no species present or possible');
+    expect(far.out).toMatch(/lines of an object moving more than about 34 km\/s faster or slower than that miss them: measure its velocity with `lineshift velocity` and give it with --velocity/);
   });
 
   it('estimates R from the line widths when not given, with a warning on stderr', async () => {

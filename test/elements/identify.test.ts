@@ -206,6 +206,26 @@ describe('identifyLines: evidence', () => {
     expect(e.missingWavelengthsAngstrom).toEqual([]);
   });
 
+  it('reports how far the lines sit off the velocity given (residual velocity), and warns when it matters', () => {
+    // Found 0.1 Å redward of each S I line: c·0.1/λ is 4.7–7.1 km/s over 4200–6350 Å.
+    const res = identifyLines([...found(waves.map((w) => w + 0.1)), ...bg], list, opts);
+    const rv = res.residualVelocity!;
+    expect(rv.lines).toBe(8);
+    expect(rv.valueKmPerS).toBeGreaterThan((SPEED_OF_LIGHT_KM_PER_S * 0.1) / 6350);
+    expect(rv.valueKmPerS).toBeLessThan((SPEED_OF_LIGHT_KM_PER_S * 0.1) / 4200);
+    // Well within 0.2 c/R (20 km/s at R 3000): no warning. 0.5 Å off (24–36 km/s) still
+    // matches (tolerance ±0.45 λ/R) and is worth a warning.
+    const quiet = collectingLogger();
+    identifyLines([...found(waves.map((w) => w + 0.1)), ...bg], list, { ...opts, logger: quiet });
+    expect(quiet.warnings.map((w) => w.code)).not.toContain('elements.velocity-offset');
+    const loud = collectingLogger();
+    const off = identifyLines([...found(waves.map((w) => w + 0.5)), ...bg], list, { ...opts, logger: loud });
+    expect(off.residualVelocity!.valueKmPerS).toBeGreaterThan(20);
+    expect(loud.warnings.map((w) => w.code)).toContain('elements.velocity-offset');
+    // Fewer than 3 lines of present species: no estimate.
+    expect(identifyLines(found([4200.1, 4450.1]), list, opts).residualVelocity).toBeNull();
+  });
+
   it('does not call it present when the strongest line is missing, even with the others there', () => {
     const res = identifyLines([...found(waves.slice(1).map((w) => w + 0.1)), ...bg], list, opts);
     const e = res.elements[0];

@@ -1,7 +1,9 @@
 import { UsageError } from '../../errors.js';
+import { IDENTIFY_DEFAULTS } from '../../elements/identify.js';
 import { identifySpectrum, type IdentifySpectrumOptions, type SpectrumIdentification } from '../../elements/spectrum.js';
 import type { LineCandidate, SpeciesEvidence } from '../../elements/types.js';
 import { readSpectrum } from '../../io/read.js';
+import { SPEED_OF_LIGHT_KM_PER_S } from '../../spectrum/constants.js';
 import { listOption, numberOption, stringOption, type Command, type ParsedArgs } from '../command.js';
 
 /** One species in `lineshift elements --json`. */
@@ -53,6 +55,8 @@ export interface ElementsReport {
   resolvingPower: number;
   resolvingPowerSource: 'given' | 'line widths';
   velocityKmPerS: number;
+  /** The found lines' mean offset from their identifications, km/s, on top of velocityKmPerS (null with fewer than 3 lines of present species). */
+  residualVelocity: SpectrumIdentification['residualVelocity'];
   medium: 'air' | 'vacuum';
   speciesTested: number;
   shiftTrials: number;
@@ -98,6 +102,7 @@ export function elementsReport(r: SpectrumIdentification, file: string): Element
     resolvingPower: r.resolvingPower,
     resolvingPowerSource: r.resolvingPowerSource,
     velocityKmPerS: r.velocityKmPerS,
+    residualVelocity: r.residualVelocity,
     medium: r.medium,
     speciesTested: r.speciesTested,
     shiftTrials: r.shiftTrials,
@@ -164,7 +169,7 @@ function table(rows: string[][]): string[] {
 /** The human-readable report: heading, species table (with why a species is not present), not-detected list, found lines with their best identification. */
 export function formatElementsReport(r: SpectrumIdentification, file: string): string {
   const out = [
-    `${file}: ${r.found.length} line${r.found.length === 1 ? '' : 's'} found; R = ${Math.round(r.resolvingPower)} (${r.resolvingPowerSource}); velocity ${r.velocityKmPerS} km/s; ${r.medium} wavelengths; ${r.speciesTested} spectra tested${r.telluricApplied ? '; telluric bands flagged' : ''}`,
+    `${file}: ${r.found.length} line${r.found.length === 1 ? '' : 's'} found; R = ${Math.round(r.resolvingPower)} (${r.resolvingPowerSource}); velocity ${r.velocityKmPerS} km/s${r.residualVelocity ? ` (lines of present species sit ${r.residualVelocity.valueKmPerS >= 0 ? '+' : '−'}${Math.abs(r.residualVelocity.valueKmPerS).toFixed(1)} ± ${r.residualVelocity.uncertaintyKmPerS.toFixed(1)} km/s off it)` : ''}; ${r.medium} wavelengths; ${r.speciesTested} spectra tested${r.telluricApplied ? '; telluric bands flagged' : ''}`,
     '',
   ];
   const shown = r.elements.filter((e) => e.verdict !== 'not detected');
@@ -181,6 +186,11 @@ export function formatElementsReport(r: SpectrumIdentification, file: string): s
     );
   } else {
     out.push('  no species present or possible');
+  }
+  if (!r.elements.some((e) => e.verdict === 'present') && r.found.length > 0) {
+    // Lines match within about k × c (blend fraction) of a resolution element: a faster object's lines all miss.
+    const reach = (IDENTIFY_DEFAULTS.toleranceSigmas * IDENTIFY_DEFAULTS.blendFraction * SPEED_OF_LIGHT_KM_PER_S) / r.resolvingPower;
+    out.push('', `  (the lists were placed at ${r.velocityKmPerS} km/s; lines of an object moving more than about ${Math.round(reach)} km/s faster or slower than that miss them: measure its velocity with \`lineshift velocity\` and give it with --velocity)`);
   }
   const none = r.elements.filter((e) => e.verdict === 'not detected' && e.linesExpected > 0).map((e) => e.species);
   if (none.length) out.push('', `not detected: ${none.join(', ')}`);
