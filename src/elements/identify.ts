@@ -279,7 +279,9 @@ interface SpeciesWork {
   readonly p: number[];
   /** weights of a match over a miss: ln(q/p) − ln((1−q)/(1−p)) */
   readonly gain: number[];
-  /** sum of miss terms ln((1−q)/(1−p)) */
+  /** miss terms ln((1−q)/(1−p)), per expected feature */
+  readonly miss: number[];
+  /** their sum */
   readonly missSum: number;
   readonly wMax: number | null;
 }
@@ -601,6 +603,7 @@ export function identifyLines(
     }
     const p: number[] = [];
     const gain: number[] = [];
+    const missTerms: number[] = [];
     let missSum = 0;
     expected.forEach((f, j) => {
       const pj = Math.min(0.99, Math.max(1e-9, chanceOfCoincidence(f)));
@@ -610,9 +613,10 @@ export function identifyLines(
       const hit = Math.log(qj / pj);
       const miss = Math.log((1 - qj) / (1 - pj));
       gain.push(hit - miss);
+      missTerms.push(miss);
       missSum += miss;
     });
-    work.push({ species, features, ranked, expected, q, p, gain, missSum, wMax });
+    work.push({ species, features, ranked, expected, q, p, gain, miss: missTerms, missSum, wMax });
   }
 
   // ---- evidence on the real data
@@ -774,15 +778,13 @@ export function identifyLines(
       return owners.length === 0;
     });
     if (by.size === 0) return;
-    const kept = (a: readonly number[]) => a.filter((_, j) => keep[j]);
-    const gain = kept(w.gain);
-    const p = kept(w.p);
-    const flags = r.flags.filter((_, j) => keep[j]);
-    const missSum = kept(w.expected.map((_, j) => Math.log((1 - w.q[j]) / (1 - w.p[j])))).reduce((acc, x) => acc + x, 0);
-    const gained = gain.reduce((acc, g, j) => acc + (flags[j] ? g : 0), 0);
+    const kept = <T>(a: readonly T[]) => a.filter((_, j) => keep[j]);
+    const miss = kept(w.miss);
+    const reduced: SpeciesWork = { ...w, expected: kept(w.expected), q: kept(w.q), p: kept(w.p), gain: kept(w.gain), miss, missSum: miss.reduce((acc, x) => acc + x, 0) };
+    const flags = kept(r.flags);
     const matchedLeft = flags.filter(Boolean).length;
-    const lambda = missSum + gained;
-    const fap = gain.length === 0 ? 1 : bernoulliSumUpperTail(gain, p, gained - 1e-12);
+    const lambda = lambdaOf(reduced, flags);
+    const fap = reduced.gain.length === 0 ? 1 : bernoulliSumUpperTail(reduced.gain, reduced.p, lambda - reduced.missSum - 1e-12);
     if (matchedLeft >= 1 && lambda > 0 && fap <= thresholds.possibleFalseAlarm) return;
     e.verdict = 'not detected';
     e.explainedBy = Object.freeze([...by].sort());
