@@ -21,6 +21,7 @@ import { lineListTemplate } from '../../src/lines/synthetic.js';
 import { SPEED_OF_LIGHT_KM_PER_S } from '../../src/spectrum/constants.js';
 import { createSpectrum, type Spectrum } from '../../src/spectrum/spectrum.js';
 import { crossCorrelationVelocity } from '../../src/velocity/ccf.js';
+import { shiftWavelength } from '../../src/velocity/doppler.js';
 import { velocityFromLines, type LineVelocityRow } from '../../src/velocity/lines.js';
 import { lvac12StarModel, lvac7Lines, lvac7StarModel, type Scenario, type TrueExposure } from '../../data/demo/generate.js';
 
@@ -97,16 +98,24 @@ export function noiseProjectionKmPerS(scenario: Scenario, e: TrueExposure, flux:
  */
 export function calibrationOffsetsKmPerS(scenario: Scenario, e: TrueExposure, calibrated: ArrayLike<number>): { species: string; restAngstrom: number; offsetKmPerS: number }[] {
   const truth = trueWavelengths(e.dispersion.star.setup);
-  const z = Math.sqrt((1 + e.topocentricVelocityKmPerS / SPEED_OF_LIGHT_KM_PER_S) / (1 - e.topocentricVelocityKmPerS / SPEED_OF_LIGHT_KM_PER_S));
-  return lvac7Lines(scenario.binary.projectedRotationKmPerS).map((l) => {
-    // Air wavelengths scale with the Doppler factor to within 10⁻⁸ here (the refractive index barely changes over 1 Å).
-    const observed = l.wavelengthAngstrom * z;
-    let p = 0;
-    while (p < truth.length - 2 && truth[p + 1] < observed) p++;
-    const f = (observed - truth[p]) / (truth[p + 1] - truth[p]);
-    const at = calibrated[p] + f * (calibrated[p + 1] - calibrated[p]);
-    return { species: l.species!, restAngstrom: l.wavelengthAngstrom, offsetKmPerS: (SPEED_OF_LIGHT_KM_PER_S * (at - observed)) / observed };
-  });
+  return lvac7Lines(scenario.binary.projectedRotationKmPerS).map((l) => ({
+    species: l.species!, restAngstrom: l.wavelengthAngstrom, offsetKmPerS: calibrationOffsetAtKmPerS(truth, calibrated, l.wavelengthAngstrom, e.topocentricVelocityKmPerS),
+  }));
+}
+
+/**
+ * c·(λ_calibrated − λ_true)/λ_true where a line of rest wavelength `restAngstrom` falls on a
+ * frame moving at `velocityKmPerS`: the pixel comes from the true grid `truth`, the calibrated
+ * wavelength from `calibrated` at that pixel (linear between pixels). Air wavelengths scale with
+ * the Doppler factor to within 10⁻⁸ here (the refractive index barely changes over 1 Å).
+ */
+function calibrationOffsetAtKmPerS(truth: Float64Array, calibrated: ArrayLike<number>, restAngstrom: number, velocityKmPerS: number): number {
+  const observed = shiftWavelength(restAngstrom, velocityKmPerS);
+  let p = 0;
+  while (p < truth.length - 2 && truth[p + 1] < observed) p++;
+  const f = (observed - truth[p]) / (truth[p + 1] - truth[p]);
+  const at = calibrated[p] + f * (calibrated[p + 1] - calibrated[p]);
+  return (SPEED_OF_LIGHT_KM_PER_S * (at - observed)) / observed;
 }
 
 /** One Balmer line of LVAC-12's velocity in {@link lvac12Budget}. */
@@ -152,18 +161,12 @@ export function lvac12Budget(scenario: Scenario, truth: { topocentricVelocityKmP
   const rn = scenario.instrument.readNoiseElectrons;
   const clean = createSpectrum({ wavelength: grid, flux: model, uncertainty: model.map((m) => Math.sqrt(m * g + rn * rn) / g), unit: 'angstrom', medium: 'air', provenance: [] });
   const noiseFree = velocityFromLines(clean, { species: ['H I'], profile: 'voigt' }).lines;
-  const z = Math.sqrt((1 + v / SPEED_OF_LIGHT_KM_PER_S) / (1 - v / SPEED_OF_LIGHT_KM_PER_S));
   const lines = measured.lines.filter((l) => l.reason === null && l.velocityKmPerS).map((l): Lvac12BudgetLine => {
-    const observed = l.restWavelengthAngstrom * z;
-    let p = 0;
-    while (p < grid.length - 2 && grid[p + 1] < observed) p++;
-    const f = (observed - grid[p]) / (grid[p + 1] - grid[p]);
-    const at = calibrated[p] + f * (calibrated[p + 1] - calibrated[p]);
     const clean = noiseFree.find((r) => Math.abs(r.restWavelengthAngstrom - l.restWavelengthAngstrom) < 1e-6)?.velocityKmPerS;
     return {
       restAngstrom: l.restWavelengthAngstrom,
       weight: 1 / l.velocityKmPerS!.uncertainty ** 2,
-      calibrationKmPerS: (SPEED_OF_LIGHT_KM_PER_S * (at - observed)) / observed,
+      calibrationKmPerS: calibrationOffsetAtKmPerS(grid, calibrated, l.restWavelengthAngstrom, v),
       noiseFreeKmPerS: clean ? clean.value - v : NaN,
     };
   });
