@@ -3,6 +3,7 @@ import type { Command } from '../../src/cli/command.js';
 import { runCli } from '../../src/cli/run.js';
 import { InputError } from '../../src/errors.js';
 import { captureIO } from '../helpers/cli.js';
+import { repoPath } from '../helpers/paths.js';
 
 const capture = () => captureIO();
 
@@ -55,5 +56,26 @@ describe('runCli', () => {
     expect(await runCli(['echo', '--help'], io, [echo])).toBe(0);
     expect(io.out).toMatch(/^Usage: lineshift echo X/);
     expect(io.out).toMatch(/--json/);
+  });
+});
+
+describe('every command reads its files relative to the working folder it is given', () => {
+  // runCli with io.cwd = data/samples and bare file names, while the process runs elsewhere
+  // (the repository root): a command that read relative to the process would not find them.
+  const samples = repoPath('data', 'samples');
+  it.each([
+    [['info', 'lvac7-star.fits', '--json']],
+    [['find', 'lvac7-star.fits', '--json']],
+    [['fit', 'lvac7-star.fits', '--center', '6347.1', '--json']],
+    [['elements', 'lvac7-star.fits', '--velocity', '-23.4', '--json']],
+    [['velocity', 'lvac7-star.fits', '--species', 'H,Si II', '--topocentric', '--json']],
+    [['calibrate', 'lamp-ne-ar.fits', '--lamp', 'neon,argon', '--json']],
+  ])('%j', async (argv) => {
+    expect(process.cwd()).not.toBe(samples);
+    const io = captureIO({ cwd: samples });
+    const code = await runCli(argv, io);
+    expect(io.err, argv.join(' ')).not.toMatch(/no such file/);
+    expect(code, io.err).toBe(0);
+    expect(() => JSON.parse(io.out)).not.toThrow();
   });
 });

@@ -1,3 +1,4 @@
+import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { IDENTIFY_DEFAULTS } from '../../elements/identify.js';
 import { identifySpectrum, type IdentifySpectrumOptions, type SpectrumIdentification } from '../../elements/spectrum.js';
@@ -245,7 +246,7 @@ spectra. With --json: {elements: [...], lines: [...]}, elements most certain fir
   async run(args, io) {
     const file = args.positionals[0];
     const options = elementsCommandOptions(args);
-    const spectrum = readSpectrum(file, { logger: io.logger });
+    const spectrum = readSpectrum(resolve(io.cwd, file), { logger: io.logger });
     const result = identifySpectrum(spectrum, { ...options, logger: io.logger });
     io.stdout(args.json ? JSON.stringify(elementsReport(result, file)) + '\n' : formatElementsReport(result, file));
     return 0;

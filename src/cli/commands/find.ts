@@ -1,3 +1,4 @@
+import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { findLines, type FindLinesOptions, type FindLinesResult } from '../../lines/find.js';
 import { readSpectrum } from '../../io/read.js';
@@ -61,7 +62,7 @@ C1,C2 --window W".`,
   async run(args, io) {
     const file = args.positionals[0];
     const options = findCommandOptions(args);
-    const spectrum = readSpectrum(file, { logger: io.logger });
+    const spectrum = readSpectrum(resolve(io.cwd, file), { logger: io.logger });
     const result = findLines(spectrum, options);
     io.stdout(args.json ? JSON.stringify({ file, ...result } satisfies FindReport) + '\n' : formatFindReport(result, file));
     return 0;

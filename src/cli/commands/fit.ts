@@ -1,3 +1,4 @@
+import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { fitLine, fitLineArrays, type LineComponentResult, type LineFitResult, type LineFitSettings, type MeasuredValue } from '../../fit/line-fit.js';
 import type { ContinuumOrder } from '../../fit/line-model.js';
@@ -119,7 +120,7 @@ file cannot be read.`,
   async run(args, io) {
     const file = args.positionals[0];
     const options = fitCommandOptions(args);
-    const spectrum = readSpectrum(file, { logger: io.logger });
+    const spectrum = readSpectrum(resolve(io.cwd, file), { logger: io.logger });
     const result = runFit(spectrum, options);
     io.stdout(args.json ? JSON.stringify(fitReport(result, file)) + '\n' : formatFitReport(result, file));
     if (!result.converged) {

@@ -1,3 +1,4 @@
+import { resolve } from 'node:path';
 import { readSpectrum } from '../../io/read.js';
 import { isLineshiftError } from '../../errors.js';
 import type { Spectrum } from '../../spectrum/spectrum.js';
@@ -92,7 +93,7 @@ the others are still described; the exit code is then 1.`,
     let failed = 0;
     for (const file of args.positionals) {
       try {
-        const info = spectrumInfo(readSpectrum(file, { logger: io.logger }), file);
+        const info = spectrumInfo(readSpectrum(resolve(io.cwd, file), { logger: io.logger }), file);
         io.stdout(args.json ? JSON.stringify(info) + '\n' : describe(info));
       } catch (e) {
         if (!isLineshiftError(e)) throw e;
