@@ -47,23 +47,19 @@ export interface SimulatedLines {
 const C_KM_S = 299_792.458; // exact (SI)
 
 /**
- * Simulates the found lines of a scenario at a resolving power and S/N.
- *
- * @param sc the composition.
- * @param resolvingPower λ/FWHM.
- * @param snr continuum signal-to-noise ratio per pixel.
- * @param seed random seed.
+ * The lines a scenario puts in, by wavelength: each listed line of its species in range at its
+ * rest wavelength times the Doppler factor `dop`, with amplitude A0 · r^0.7 (r the list intensity
+ * over the species' strongest in range; every line r = 0.7 in lists with intensities for fewer
+ * than half their lines; 0.05 for lines without intensity), forbidden lines left out of
+ * absorption spectra, plus unlisted lines at random places (shared by the found-line simulator
+ * and synthetic-spectrum.ts).
  */
-export function simulateFoundLines(sc: Scenario, resolvingPower: number, snr: number, seed: number): SimulatedLines {
-  const rand = mulberry32(seed);
-  const v = (rand() - 0.5) * 200; // ±100 km/s
-  const dop = Math.sqrt((1 + v / C_KM_S) / (1 - v / C_KM_S));
+export function scenarioLines(sc: Scenario, dop: number, rand: () => number): { w: number; a: number }[] {
   const truthLines: { w: number; a: number }[] = [];
   for (const s of sc.species) {
     const rows = listsOf([s]).filter(
       (l: ReferenceLine) => l.wavelengthAngstrom >= sc.startAngstrom && l.wavelengthAngstrom <= sc.endAngstrom && !/multiplet centroid/i.test(l.note ?? ''),
     );
-    if (rows.length === 0) continue;
     let known = rows.filter((r) => r.relativeIntensity !== null).map((r) => r.relativeIntensity as number);
     // lists with intensities for fewer than half their lines (Fe II, Ti II): all lines equally strong
     if (known.length < 0.5 * rows.length) known = [];
@@ -75,11 +71,24 @@ export function simulateFoundLines(sc: Scenario, resolvingPower: number, snr: nu
     }
   }
   const span = sc.endAngstrom - sc.startAngstrom;
-  const nUnlisted = Math.round(sc.unlistedPerAngstrom * span);
-  for (let i = 0; i < nUnlisted; i++) {
-    truthLines.push({ w: sc.startAngstrom + rand() * span, a: sc.peakAmplitude * 0.3 * rand() });
-  }
-  truthLines.sort((a, b) => a.w - b.w);
+  for (let i = 0, n = Math.round(sc.unlistedPerAngstrom * span); i < n; i++) truthLines.push({ w: sc.startAngstrom + rand() * span, a: sc.peakAmplitude * 0.3 * rand() });
+  return truthLines.sort((a, b) => a.w - b.w);
+}
+
+/**
+ * Simulates the found lines of a scenario at a resolving power and S/N.
+ *
+ * @param sc the composition.
+ * @param resolvingPower λ/FWHM.
+ * @param snr continuum signal-to-noise ratio per pixel.
+ * @param seed random seed.
+ */
+export function simulateFoundLines(sc: Scenario, resolvingPower: number, snr: number, seed: number): SimulatedLines {
+  const rand = mulberry32(seed);
+  const v = (rand() - 0.5) * 200; // ±100 km/s
+  const dop = Math.sqrt((1 + v / C_KM_S) / (1 - v / C_KM_S));
+  const truthLines = scenarioLines(sc, dop, rand);
+  const span = sc.endAngstrom - sc.startAngstrom;
   // blend what the resolution cannot separate
   const blended: { w: number; a: number }[] = [];
   for (const t of truthLines) {

@@ -10,8 +10,7 @@
  */
 import { createSpectrum, type Spectrum } from '../../src/spectrum/spectrum.js';
 import { gaussian, mulberry32 } from '../helpers/random.js';
-import type { Scenario } from './simulate.js';
-import { listsOf } from './lists.js';
+import { scenarioLines, type Scenario } from './simulate.js';
 
 const C_KM_S = 299_792.458; // exact (SI)
 
@@ -36,21 +35,7 @@ export function syntheticSpectrum(sc: Scenario, resolvingPower: number, snr: num
   const rand = mulberry32(seed);
   const v = (rand() - 0.5) * 200;
   const dop = Math.sqrt((1 + v / C_KM_S) / (1 - v / C_KM_S));
-  const lines: { w: number; a: number }[] = [];
-  for (const s of sc.species) {
-    const rows = listsOf([s]).filter((l) => l.wavelengthAngstrom >= sc.startAngstrom && l.wavelengthAngstrom <= sc.endAngstrom && !/multiplet centroid/i.test(l.note ?? ''));
-    let known = rows.filter((r) => r.relativeIntensity !== null).map((r) => r.relativeIntensity as number);
-    if (known.length < 0.5 * rows.length) known = [];
-    const iMax = known.length ? Math.max(...known) : 0;
-    for (const r of rows) {
-      if (/forbidden/i.test(r.note ?? '') && sc.kind === 'absorption') continue;
-      const rel = known.length === 0 ? 0.7 : r.relativeIntensity === null ? 0.05 : r.relativeIntensity / iMax;
-      lines.push({ w: r.wavelengthAngstrom * dop, a: sc.peakAmplitude * Math.pow(rel, 0.7) });
-    }
-  }
-  const span = sc.endAngstrom - sc.startAngstrom;
-  for (let i = 0, n = Math.round(sc.unlistedPerAngstrom * span); i < n; i++) lines.push({ w: sc.startAngstrom + rand() * span, a: sc.peakAmplitude * 0.3 * rand() });
-  lines.sort((a, b) => a.w - b.w);
+  const lines = scenarioLines(sc, dop, rand);
   const step = 1 / (2.5 * resolvingPower); // Δ ln λ per pixel
   const n = Math.floor(Math.log(sc.endAngstrom / sc.startAngstrom) / step) + 1;
   const wavelength = new Float64Array(n);
